@@ -1,0 +1,2 @@
+// Global test setup: an in-memory IndexedDB for store tests (fake-indexeddb), harmless elsewhere.
+import 'fake-indexeddb/auto';
