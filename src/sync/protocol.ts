@@ -1,0 +1,25 @@
+// Wire protocol shared by the sync client and server (versioned; see DEVELOPERS.md "Sync").
+// The change-log rows in the device store have exactly this shape, so a push sends them as they are.
+import type { RecordKind } from '../campaign/records.ts';
+
+export const PROTOCOL_VERSION = 1;
+
+export type ChangeOp = 'put' | 'delete';
+
+export interface Change {
+  /** Device-made UUIDv7; the server deduplicates pushes by it. */
+  changeId: string;
+  campaignId: string;
+  recordKind: RecordKind;
+  /** Device-made id of the record this change is about. */
+  recordId: string;
+  op: ChangeOp;
+  /** The whole record after the change for `put` (validated with the campaign schema); null for `delete` (a tombstone). */
+  record: unknown;
+  /** Hybrid-logical-clock stamp (src/sync/hlc.ts) of the device that made the change. */
+  hlc: string;
+  deviceId: string;
+  /** HLC of the version this edit was made on top of (null for a create): how concurrent edits are detected. */
+  baseHlc: string | null;
+  protocolVersion: number;
+}
