@@ -94,3 +94,12 @@ export interface CampaignResult {
   modelError: { statement: string; maxMetresPerDegree: number } | null;
   suspectThreshold: number;
 }
+
+export interface SolveOptions {
+  model?: ModelId;            // default 'ellipsoid' (the rigorous fit)
+  estimator?: EstimatorId;    // default 'least-squares'
+  weighting?: WeightingId;    // default 'propagated'
+  suspectThreshold?: number;  // default 3 (common practice)
+  /** The previous result for this campaign: warm start for the iterative and exact estimators. */
+  previous?: CampaignResult;
+}
