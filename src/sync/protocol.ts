@@ -22,4 +22,10 @@ export interface Change {
   /** HLC of the version this edit was made on top of (null for a create): how concurrent edits are detected. */
   baseHlc: string | null;
   protocolVersion: number;
+  /**
+   * Conflict ids (src/sync/conflict.ts) this change resolves; only a lead may send it. Absent on
+   * ordinary edits. A resolution is an ordinary put/delete of the record made on top of its
+   * current version, so the merge rules treat it like any other edit.
+   */
+  resolves?: string[];
 }
