@@ -95,6 +95,8 @@ export const CampaignSettingsSchema = z.strictObject({
   weighting: z.enum(WEIGHTING_IDS).optional(),
   suspectThreshold: z.number().finite().min(1).max(20).optional(),
   referenceEllipsoid: z.string().max(40).optional(),
+  /** Which latitude kind feeds the arcs (default astronomic: astro-geodetic arcs use astronomic latitudes). */
+  latitudeKind: z.enum(LATITUDE_KINDS, { message: 'astronomic or geodetic' }).optional(),
 });
 export type CampaignSettings = z.infer<typeof CampaignSettingsSchema>;
 

@@ -1,0 +1,54 @@
+// Arcs → rows of the classic degree-length model y = c + m·x (+ k·x²):
+//     y = s₀ / |Δφ|   metres per degree of latitude,   x = sin²φ_mid,   φ_mid = (φ₁ + φ₂)/2.
+// Treating the arc's mean degree length as the degree length at φ_mid drops a term of order
+// m·cos2φ_mid·Δφ²/12 (≈ 0.35 m/degree for a 5° arc); the model-error statement covers it, since it
+// is computed from exact arcs at the campaign's own latitudes.
+//
+// Weighting `propagated`: first-order propagation of the distance sigma and both stations'
+// latitude sigmas through y = s/Δφ (Δφ and σ_φ in degrees):
+//     σ_y² = (σ_s/Δφ)² + (s/Δφ²)²·(σ_φ₁² + σ_φ₂²).
+// Arcs sharing a station are correlated through that station's latitude (covariance
+// −(s₁/Δφ₁²)(s₂/Δφ₂²)σ_φ² for consecutive arcs); the rows are treated as independent — see
+// DEVELOPERS.md "Conventions".
+// Weighting `equal`: every row weight 1, as the classic analyses did.
+import type { WeightingId } from './records.ts';
+
+export interface ArcGeometry {
+  id: string;
+  /** Station latitudes of the arc (degrees), in either order. */
+  latitude1Deg: number;
+  latitude2Deg: number;
+  sigmaLatitude1Arcsec: number;
+  sigmaLatitude2Arcsec: number;
+  /** Distance reduced to the ellipsoid, metres. */
+  reducedDistanceM: number;
+  sigmaM: number;
+}
+
+export interface DegreeRow {
+  id: string;
+  /** sin²φ_mid. */
+  x: number;
+  midLatitudeDeg: number;
+  /** Metres per degree. */
+  y: number;
+  sigmaY: number;
+  /** 1/σ_y² (`propagated`) or 1 (`equal`). */
+  weight: number;
+}
+
+export function degreeRow(arc: ArcGeometry, weighting: WeightingId): DegreeRow {
+  const dPhi = Math.abs(arc.latitude2Deg - arc.latitude1Deg);
+  const mid = (arc.latitude1Deg + arc.latitude2Deg) / 2;
+  const s = arc.reducedDistanceM;
+  const y = s / dPhi;
+  const sPhi1 = arc.sigmaLatitude1Arcsec / 3600;
+  const sPhi2 = arc.sigmaLatitude2Arcsec / 3600;
+  const sigmaY = Math.sqrt((arc.sigmaM / dPhi) ** 2 + (s / (dPhi * dPhi)) ** 2 * (sPhi1 * sPhi1 + sPhi2 * sPhi2));
+  const sinMid = Math.sin((mid * Math.PI) / 180);
+  return { id: arc.id, x: sinMid * sinMid, midLatitudeDeg: mid, y, sigmaY, weight: weighting === 'equal' ? 1 : 1 / (sigmaY * sigmaY) };
+}
+
+export function degreeRows(arcs: readonly ArcGeometry[], weighting: WeightingId): DegreeRow[] {
+  return arcs.map((a) => degreeRow(a, weighting));
+}
