@@ -3,4 +3,5 @@ export * from './protocol.ts';
 export * from './hlc.ts';
 export * from './merge.ts';
 export * from './conflict.ts';
+export * from './resolution.ts';
 export type * from './sync-store.ts';

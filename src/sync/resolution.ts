@@ -1,0 +1,39 @@
+// How a person's choice on a conflict becomes a change (resolution is itself a change, pushed by a
+// lead and merged like any other edit). The store stamps it (hlc, baseHlc = the current version's
+// stamp, changeId) and writes it with its change-log row in one transaction.
+import { InputError } from '../errors.ts';
+import type { ConflictRecord } from './conflict.ts';
+import type { ChangeOp } from './protocol.ts';
+
+export type ResolutionChoice =
+  /** Keep what the record holds now; the conflict is closed by re-writing the current content. */
+  | { keep: 'current'; currentRecord: unknown; currentDeleted: boolean }
+  /** Bring the losing version back as the record's content. */
+  | { keep: 'loser' }
+  /** A person merged the two by hand: this is the new content (validated by the store's schema). */
+  | { keep: 'merged'; record: unknown };
+
+export interface ResolutionEdit {
+  op: ChangeOp;
+  /** Content for a put; null for a delete. */
+  record: unknown;
+  resolves: string[];
+}
+
+export function resolutionFor(conflict: ConflictRecord, choice: ResolutionChoice): ResolutionEdit {
+  const resolves = [conflict.conflictId];
+  switch (choice.keep) {
+    case 'current':
+      return choice.currentDeleted ? { op: 'delete', record: null, resolves } : { op: 'put', record: choice.currentRecord, resolves };
+    case 'loser':
+      if (conflict.loser.op === 'delete' || conflict.loser.record === null) {
+        return { op: 'delete', record: null, resolves };
+      }
+      return { op: 'put', record: conflict.loser.record, resolves };
+    case 'merged':
+      if (choice.record === null || typeof choice.record !== 'object') {
+        throw new InputError('resolution.record', choice.record, 'a merged resolution needs the whole record');
+      }
+      return { op: 'put', record: choice.record, resolves };
+  }
+}
