@@ -39,7 +39,8 @@ export interface LatitudeEstimate {
   kind: LatitudeKind;
   latitudeDeg: number;
   standardErrorArcsec: number;
-  /** Robust scale of the repeats in arcseconds (MAD scale × median sigma); 0 for a single reading. */
+  /** Scatter of the repeats in arcseconds: MAD scale of the whitened residuals × median sigma (two readings:
+   *  |difference|/√2 in the same units); 0 for a single reading. Not floored, unlike the flagging scale. */
   spreadArcsec: number;
   /** Readings used (not excluded). */
   count: number;
@@ -84,7 +85,7 @@ function plainMedian(values: readonly number[]): number {
 const psi = (u: number, k: number): number => Math.max(-k, Math.min(k, u));
 const psiPrime = (u: number, k: number): number => (Math.abs(u) <= k ? 1 : 0);
 
-interface Location { offsetArcsec: number; scale: number; se: number; iterations: number; converged: boolean; reason: string }
+interface Location { offsetArcsec: number; scale: number; rawScale: number; se: number; iterations: number; converged: boolean; reason: string }
 
 /** Weighted Huber location of residual offsets (arcsec) with sigmas (arcsec). */
 function huberLocation(x: readonly number[], sigma: readonly number[]): Location {
@@ -92,14 +93,15 @@ function huberLocation(x: readonly number[], sigma: readonly number[]): Location
   const w = sigma.map((s) => 1 / (s * s));
   const sumW = w.reduce((s, v) => s + v, 0);
   const apriori = 1 / Math.sqrt(sumW);
-  if (n === 1) return { offsetArcsec: x[0], scale: 1, se: sigma[0], iterations: 0, converged: true, reason: 'single reading' };
+  if (n === 1) return { offsetArcsec: x[0], scale: 1, rawScale: 0, se: sigma[0], iterations: 0, converged: true, reason: 'single reading' };
   if (n === 2) {
     const mean = (w[0] * x[0] + w[1] * x[1]) / sumW;
     const chi = (x[0] - x[1]) ** 2 / (sigma[0] ** 2 + sigma[1] ** 2);
-    return { offsetArcsec: mean, scale: Math.max(1, Math.sqrt(chi)), se: apriori * Math.max(1, Math.sqrt(chi)), iterations: 0, converged: true, reason: 'two readings: weighted mean' };
+    return { offsetArcsec: mean, scale: Math.max(1, Math.sqrt(chi)), rawScale: Math.sqrt(chi / 2), se: apriori * Math.max(1, Math.sqrt(chi)), iterations: 0, converged: true, reason: 'two readings: weighted mean' };
   }
   const med = weightedMedian(x, w);
-  const scale = Math.max(1, MAD_TO_SIGMA * plainMedian(x.map((v, i) => Math.abs(v - med) / sigma[i])));
+  const rawScale = MAD_TO_SIGMA * plainMedian(x.map((v, i) => Math.abs(v - med) / sigma[i]));
+  const scale = Math.max(1, rawScale);
   let mu = med;
   let iterations = 0;
   let converged = false;
@@ -135,7 +137,7 @@ function huberLocation(x: readonly number[], sigma: readonly number[]): Location
   const empirical = sumPsiPrime > 0
     ? scale * Math.sqrt(sumPsi2 / (n - 1)) / (sumPsiPrime / n) * apriori
     : scale * apriori;
-  return { offsetArcsec: mu, scale, se: Math.max(apriori, empirical), iterations, converged, reason };
+  return { offsetArcsec: mu, scale, rawScale, se: Math.max(apriori, empirical), iterations, converged, reason };
 }
 
 function estimateKind(code: string, kind: LatitudeKind, all: readonly LatitudeReading[], excluded: ReadonlySet<string>, threshold: number): LatitudeEstimate | undefined {
@@ -178,7 +180,7 @@ function estimateKind(code: string, kind: LatitudeKind, all: readonly LatitudeRe
     kind,
     latitudeDeg: ref + loc.offsetArcsec / 3600,
     standardErrorArcsec: loc.se,
-    spreadArcsec: used.length >= 3 ? loc.scale * medianSigma : 0,
+    spreadArcsec: loc.rawScale * medianSigma,
     count: used.length,
     iterations: loc.iterations,
     converged: loc.converged,
