@@ -18,22 +18,30 @@ export interface ResolutionEdit {
   /** Content for a put; null for a delete. */
   record: unknown;
   resolves: string[];
+  /**
+   * True when the content must be written as a NEW record (fresh id from the store's id source,
+   * also set as the record's `id`): a tombstone never comes back, so restoring an edit that met a
+   * deletion re-creates it under a new id.
+   */
+  asNewRecord: boolean;
 }
 
 export function resolutionFor(conflict: ConflictRecord, choice: ResolutionChoice): ResolutionEdit {
   const resolves = [conflict.conflictId];
   switch (choice.keep) {
     case 'current':
-      return choice.currentDeleted ? { op: 'delete', record: null, resolves } : { op: 'put', record: choice.currentRecord, resolves };
+      return choice.currentDeleted
+        ? { op: 'delete', record: null, resolves, asNewRecord: false }
+        : { op: 'put', record: choice.currentRecord, resolves, asNewRecord: false };
     case 'loser':
       if (conflict.loser.op === 'delete' || conflict.loser.record === null) {
-        return { op: 'delete', record: null, resolves };
+        return { op: 'delete', record: null, resolves, asNewRecord: false };
       }
-      return { op: 'put', record: conflict.loser.record, resolves };
+      return { op: 'put', record: conflict.loser.record, resolves, asNewRecord: conflict.reason === 'edit-after-delete' };
     case 'merged':
       if (choice.record === null || typeof choice.record !== 'object') {
         throw new InputError('resolution.record', choice.record, 'a merged resolution needs the whole record');
       }
-      return { op: 'put', record: choice.record, resolves };
+      return { op: 'put', record: choice.record, resolves, asNewRecord: conflict.reason === 'edit-after-delete' };
   }
 }
