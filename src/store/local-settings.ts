@@ -1,0 +1,28 @@
+// Device-local key/value settings (never synced): app preferences, form drafts, sync cursors.
+// Drafts are written on every field change so killing the app loses at most the field being
+// typed (field-traps ); they are cleared only after the record's save has read back.
+import type { ArcfieldDb } from './arcfield-db.ts';
+
+export const DRAFT_PREFIX = 'draft:';
+
+export async function readSetting<T>(db: ArcfieldDb, key: string): Promise<T | undefined> {
+  const row = await db.settings.get(key);
+  return row?.value as T | undefined;
+}
+
+export async function writeSetting(db: ArcfieldDb, key: string, value: unknown): Promise<void> {
+  await db.settings.put({ key, value });
+}
+
+export async function saveDraft(db: ArcfieldDb, form: string, value: unknown): Promise<void> {
+  await db.settings.put({ key: DRAFT_PREFIX + form, value: { value, savedAt: new Date().toISOString() } });
+}
+
+export async function loadDraft<T>(db: ArcfieldDb, form: string): Promise<T | undefined> {
+  const row = await db.settings.get(DRAFT_PREFIX + form);
+  return (row?.value as { value: T } | undefined)?.value;
+}
+
+export async function clearDraft(db: ArcfieldDb, form: string): Promise<void> {
+  await db.settings.delete(DRAFT_PREFIX + form);
+}
