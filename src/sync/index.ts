@@ -4,4 +4,5 @@ export * from './hlc.ts';
 export * from './merge.ts';
 export * from './conflict.ts';
 export * from './resolution.ts';
+export * from './wire.ts';
 export type * from './sync-store.ts';

@@ -29,3 +29,23 @@ export interface Change {
    */
   resolves?: string[];
 }
+
+/** Oldest protocol version this code still speaks (the server refuses older pushes with 426). */
+export const MIN_PROTOCOL_VERSION = 1;
+
+/** Largest push batch the server accepts; the client sends at most this many per request. */
+export const MAX_PUSH_CHANGES = 200;
+/** Largest pull page; the server clamps `limit` to it. */
+export const MAX_PULL_LIMIT = 1000;
+export const DEFAULT_PULL_LIMIT = 250;
+
+/**
+ * A stamp further than this ahead of the server clock is accepted but flagged (`clock-ahead`).
+ * Phone clocks set by the network are within seconds; 5 minutes leaves room for a hand-set clock
+ * before a person is asked to look (field-traps R-5.6).
+ */
+export const FAR_FUTURE_MS = 5 * 60 * 1000;
+
+export const CREW_ROLES = ['observer', 'lead', 'viewer'] as const;
+/** observer: push own readings and pull; lead: also exclusions, conflict resolutions, tokens; viewer: pull only. */
+export type CrewRole = (typeof CREW_ROLES)[number];
