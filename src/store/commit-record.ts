@@ -5,6 +5,7 @@
 // see the same snapshot the write commits against.
 import type { Table } from 'dexie';
 import type { RecordKind } from '../campaign/records.ts';
+import { InputError } from '../errors.ts';
 import { PROTOCOL_VERSION } from '../sync/protocol.ts';
 import type { ArcfieldDb } from './arcfield-db.ts';
 import { SETTING_HLC, type DeviceContext } from './device-context.ts';
@@ -32,6 +33,8 @@ export interface CommitPlan<K extends RecordKind> {
   build: (current: RowOf<K> | undefined, meta: RowMeta) => Promise<RowOf<K>> | RowOf<K>;
   /** Extra tables the build step reads or writes. */
   alsoTables?: Table[];
+  /** Conflict ids this edit resolves (a lead's resolution, src/sync/resolution.ts). */
+  resolves?: readonly string[];
 }
 
 export function tableOf<K extends RecordKind>(db: ArcfieldDb, kind: K): Table<RowOf<K>, string> {
@@ -44,11 +47,18 @@ export async function commitRecord<K extends RecordKind>(db: ArcfieldDb, ctx: De
   const hlc = ctx.clock.tick();
   const changeId = ctx.newId();
   const savedMs = ctx.now();
-  const meta: RowMeta = { id: plan.recordId, campaignId: plan.campaignId, hlc, deviceId: ctx.deviceId, deleted: plan.op === 'delete' ? 1 : 0, savedMs };
+  const meta: RowMeta = {
+    id: plan.recordId, campaignId: plan.campaignId, changeId, hlc, deviceId: ctx.deviceId, baseHlc: null,
+    deleted: plan.op === 'delete' ? 1 : 0, savedMs,
+  };
 
   const tx = db.transaction('rw', [table, db.changes, db.settings, ...(plan.alsoTables ?? [])], async () => {
     const current = await table.get(plan.recordId);
-    const row = await plan.build(current, meta);
+    if (current?.deleted && plan.op === 'put') {
+      // Tombstone wins (merge.ts): a deleted record never comes back under its old id.
+      throw new InputError('id', plan.recordId, 'this record was deleted; enter it again as a new one');
+    }
+    const row = await plan.build(current, { ...meta, baseHlc: current?.hlc ?? null });
     await table.put(row);
     const change: ChangeRow = {
       changeId,
@@ -61,6 +71,7 @@ export async function commitRecord<K extends RecordKind>(db: ArcfieldDb, ctx: De
       deviceId: ctx.deviceId,
       baseHlc: current?.hlc ?? null,
       protocolVersion: PROTOCOL_VERSION,
+      ...(plan.resolves?.length ? { resolves: [...plan.resolves] } : {}),
       state: 'pending',
       loggedMs: savedMs,
     };

@@ -132,6 +132,7 @@ export class FieldStore {
       kind, campaignId: current.campaignId, recordId: id, op: 'delete',
       build: (cur, meta) => {
         if (!cur) throw new InputError('id', id, `no such ${kind} on this device`);
+        if (cur.deleted) throw new InputError('id', id, `this ${kind} is already deleted`);
         return { ...cur, ...meta };
       },
     });

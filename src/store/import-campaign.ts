@@ -51,11 +51,11 @@ export async function importCampaignFile(store: FieldStore, input: unknown, sour
   const changes: ChangeRow[] = [];
   const meta = (id: string): RowMeta => {
     const hlc = ctx.clock.tick();
-    return { id, campaignId, hlc, deviceId: ctx.deviceId, deleted: 0, savedMs: nowMs };
+    return { id, campaignId, changeId: ctx.newId(), hlc, deviceId: ctx.deviceId, baseHlc: null, deleted: 0, savedMs: nowMs };
   };
   const log = (kind: RecordKind, m: RowMeta, record: unknown): void => {
     changes.push({
-      changeId: ctx.newId(), campaignId, recordKind: kind, recordId: m.id, op: 'put', record, hlc: m.hlc,
+      changeId: m.changeId, campaignId, recordKind: kind, recordId: m.id, op: 'put', record, hlc: m.hlc,
       deviceId: ctx.deviceId, baseHlc: null, protocolVersion: PROTOCOL_VERSION, state: 'pending', loggedMs: nowMs,
     });
   };

@@ -23,3 +23,4 @@ export {
 } from './storage-status.ts';
 export { readSetting, writeSetting, saveDraft, loadDraft, clearDraft, DRAFT_PREFIX } from './local-settings.ts';
 export { validateRecord } from './validate-record.ts';
+export { DexieSyncStore, toWireChange, SETTING_CURSOR_PREFIX } from './dexie-sync-store.ts';

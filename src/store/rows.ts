@@ -4,14 +4,19 @@
 // Dexie can index them; `record` is the exact object that goes on the wire.
 import type { ArcReading, Exclusion, LatitudeReading, RecordKind, Station } from '../campaign/records.ts';
 import type { Change } from '../sync/protocol.ts';
+import type { ConflictRecord } from '../sync/conflict.ts';
 import type { CampaignRecord } from './campaign-record.ts';
 
 export interface RowMeta {
   id: string;
   campaignId: string;
+  /** The change that produced this version (merge.ts `RecordVersion.changeId`). */
+  changeId: string;
   /** HLC stamp of the last write (local or merged from a pull). */
   hlc: string;
   deviceId: string;
+  /** Stamp of the version this one was edited from (null for a create). */
+  baseHlc: string | null;
   /** 1 = tombstone (a `delete` change); the row stays so a late, older `put` cannot resurrect it. */
   deleted: 0 | 1;
   /** Device time of the local write, epoch ms (display only; ordering uses `hlc`). */
@@ -84,20 +89,8 @@ export interface GnssFixRow {
   rejectReason: string | null;
 }
 
-/** A concurrent edit that lost the merge, kept for a person to resolve (schema v2). */
-export interface ConflictRow {
-  /** The losing change's id. */
-  id: string;
-  campaignId: string;
-  recordKind: RecordKind;
-  recordId: string;
-  /** The losing change in full (its record is kept verbatim). */
-  losing: Change;
-  /** HLC of the version that won. */
-  winningHlc: string;
-  detectedMs: number;
-  resolved: 0 | 1;
-}
+/** A concurrent edit that lost the merge, as the server published it (schema v2; keyed by conflictId). */
+export type ConflictRow = ConflictRecord;
 
 export interface SettingRow {
   key: string;

@@ -10,7 +10,7 @@ import type { Transaction } from 'dexie';
 export const SCHEMA_V2 = {
   latitudeReadings: 'id, [campaignId+station+deleted], [campaignId+deleted+id], [campaignId+deleted+observedMs]',
   arcReadings: 'id, [campaignId+fromStation], [campaignId+toStation], [campaignId+deleted+id], [campaignId+deleted+observedMs]',
-  conflicts: 'id, [campaignId+resolved], [recordKind+recordId]',
+  conflicts: 'conflictId, [campaignId+status], [recordKind+recordId]',
 } as const;
 
 export const SCHEMA_V2_VERSION = 2;

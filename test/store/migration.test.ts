@@ -42,7 +42,7 @@ describe('schema versions', () => {
         expect(now, `${t} ${key}`).toMatchObject(original);
       }
     }
-    const change = await db.changes.where('changeId').equals('chg-1').first();
+    const change = await db.changes.where('changeId').equals('chg-lat-1').first();
     expect(change).toMatchObject(seed.changes[0]);
     for (const t of ['latitudeReadings', 'arcReadings'] as const) {
       for (const row of await db.table<Row & { observedMs: number }>(t).toArray()) {
