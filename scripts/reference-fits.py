@@ -189,8 +189,11 @@ def rlm_fixed_scale(Xw, yw, norm, start, scale):
                     start_params=np.asarray(start), cov='H1')
     resid = yw - Xw @ res.params
     u = resid / scale
+    # statsmodels 0.13's TukeyBiweight.rho is the textbook rho minus c^2/6 (rho(0) = -c^2/6):
+    # subtracting rho(0) gives the textbook objective (rho(0) = 0) for either convention.
+    rho0 = float(norm.rho(np.zeros(1))[0])
     return dict(coefficients=lst(res.params), scale=float(res.scale), iterations=int(res.fit_history['iteration']),
-                covarianceH1=lst(res.bcov_scaled), objective=float(np.sum(norm.rho(u))),
+                covarianceH1=lst(res.bcov_scaled), objective=float(np.sum(norm.rho(u) - rho0)),
                 weights=lst(norm.weights(u)))
 
 
@@ -279,7 +282,7 @@ def fits(out_dir, r_path):
                cases=linf_cases))
     mnote = ('statsmodels: RLM(yw, Xw, M).fit(start_params = L1 start (HiGHS), scale held fixed at start.scale = '
              '1/Phi^-1(3/4) median|r - median r| of the start\'s whitened residuals, update_scale=False, conv="coefs", '
-             'tol = 1e-13 max|start|, cov="H1"); objective = sum rho(r/s). mass: MASS::rlm(Xw, yw, init = quantreg L1, '
+             'tol = 1e-13 max|start|, cov="H1"); objective = sum rho(r/s) with rho(0) = 0; weights = psi(u)/u at the end. mass: MASS::rlm(Xw, yw, init = quantreg L1, '
              'maxit = 1000, acc = 1e-12) with its own default scale rule (re-estimated every iteration as median|r|/0.6745); '
              'its result is the fixed-scale M-estimate at its final scale "scale"')
     write_json(out_dir, 'huber.json', dict(head, estimator='huber', tuning=HUBER_K, fields=mnote, cases=hub_cases))
