@@ -26,8 +26,13 @@ export function toJson(v: unknown): string | null {
   return v === null || v === undefined ? null : JSON.stringify(v);
 }
 
-const str = (v: unknown): string => String(v);
-const strOrNull = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
+/** Text columns come back as strings; anything else means the schema is not what we wrote. */
+const str = (v: unknown): string => {
+  if (typeof v === 'string') return v;
+  if (typeof v === 'number' || typeof v === 'bigint') return String(v);
+  throw new TypeError(`database: expected a text column, got ${typeof v}`);
+};
+const strOrNull = (v: unknown): string | null => (v === null || v === undefined ? null : str(v));
 const bool = (v: unknown): boolean => v === true || v === 1 || v === '1';
 
 export function changeFromRow(r: Row): StoredChange {
