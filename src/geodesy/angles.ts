@@ -2,7 +2,8 @@
 //
 // Accepted (one angle per text, whitespace around parts allowed):
 //   decimal degrees           41.2092   -41.2092   +41.2092   41.2092N
-//   sexagesimal with symbols  41°12'33.25"N   41°12.5'   41°   (also º, ′ ″, ’ ”, and '' for ")
+//   sexagesimal with symbols  41°12'33.25"N   41°12.5'   41°   (also º, ′ ″, ’ ”, and '' for ";
+//                             the last mark may be left off: 41°12'33.25)
 //   space separated           41 12 33.25 N   N 41 12 33.25   41 12.5
 //   colon separated           -41:12:33.25   41:12.5
 //   gon (400 per turn)        45.5gon   45.5 g   -12 gon        (1 gon = 0.9°, ISO 80000-3)
@@ -27,7 +28,9 @@ interface ParsedAngle {
 }
 
 const NUMBER = String.raw`(?:\d+(?:\.\d*)?|\.\d+)`;
-const SYMBOLS = new RegExp(String.raw`^(${NUMBER})\s*°(?:\s*(${NUMBER})\s*'(?:\s*(${NUMBER})\s*")?)?$`);
+// The mark after the last part may be left off ("41°12", "41°12'33.25"): unambiguous, and what a
+// person has typed half-way through an entry.
+const SYMBOLS = new RegExp(String.raw`^(${NUMBER})\s*°\s*(?:(${NUMBER})\s*(?:'\s*(?:(${NUMBER})\s*"?)?)?)?$`);
 const COLONS = new RegExp(String.raw`^(${NUMBER})(?:\s*:\s*(${NUMBER})(?:\s*:\s*(${NUMBER}))?)?$`);
 const SPACES = new RegExp(String.raw`^(${NUMBER})(?:\s+(${NUMBER})(?:\s+(${NUMBER}))?)?$`);
 const GON = new RegExp(String.raw`^([+-]?)\s*(${NUMBER})\s*(?:gon|g)$`, 'i');
