@@ -16,7 +16,7 @@ export interface TimingOptions {
   minSampleSeconds: number;
 }
 
-export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 4, maxRepeats: 7, minSampleSeconds: 0.02 };
+export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 2, maxRepeats: 7, minSampleSeconds: 0.02 };
 
 export interface TimingSummary {
   medianSeconds: number;
