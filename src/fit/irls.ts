@@ -1,0 +1,227 @@
+// M-estimation by iteratively reweighted least squares (Beaton & Tukey 1974; Holland & Welsch
+// 1977), with the scale held fixed.
+//
+// Minimises Σ ρ(uᵢ), uᵢ = √wᵢ·rᵢ / s. Each step solves the weighted least-squares problem with
+// weights wᵢ·ψ(uᵢ)/uᵢ, in correction form (weighted-normal.ts) so the fixed point satisfies
+// Σ √wᵢ ψ(uᵢ) xᵢ = 0 to the accuracy of the residuals. The scale s is fixed for the whole
+// iteration: options.scale, else the warm start's scale, else the MAD of the start's whitened
+// residuals. (MASS::rlm instead re-estimates the scale each iteration as median|r|/0.6745; its
+// answer is then the fixed-scale estimate at its final scale — what the reference tests compare.)
+// Buffers are allocated once per fit; an iteration allocates nothing.
+import { InputError } from '../errors.ts';
+import { interceptColumn, noSolution, residualsOf } from './problem.ts';
+import { madScale } from './robust-scale.ts';
+import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
+import { accumulateNormal, cofactorMatrix, createNormalWorkspace, factorNormal, solveCorrection } from './weighted-normal.ts';
+
+/** A ρ function of the standardized residual u with its ψ = ρ′, ψ′ and IRLS weight ψ(u)/u. */
+export interface RhoFunction {
+  readonly estimator: Extract<Estimator, 'huber' | 'tukey'>;
+  readonly tuning: number;
+  rho(u: number): number;
+  psi(u: number): number;
+  psiDerivative(u: number): number;
+  weight(u: number): number;
+}
+
+/** Default relative tolerance on the coefficients (types.ts: 1e-12 for IRLS). */
+export const IRLS_TOLERANCE = 1e-12;
+/**
+ * Iteration cap. IRLS converges linearly; the slowest rate seen on the reference sets (Tukey,
+ * n = 5) is about 0.6, which needs log(1e-12)/log(0.6) ≈ 55 steps; 500 leaves a wide margin.
+ */
+export const IRLS_MAX_ITERATIONS = 500;
+/**
+ * Smallest pivot ratio of the reweighted normal equations: cond ≲ 1/√(100ε) ≈ 7e6 keeps
+ * cond²·ε ≤ 0.01, so the correction-form solve still contracts; below it the reweighted design
+ * is treated as rank deficient (e.g. Tukey weights left fewer than p informative rows).
+ */
+export const IRLS_MIN_PIVOT = Math.sqrt(100 * Number.EPSILON);
+
+export interface IrlsStart {
+  coefficients: Float64Array;
+  /** The scale to hold fixed (already chosen by the caller). */
+  scale: number;
+  /** How the start was obtained, for the reason text. */
+  from: string;
+}
+
+/** Checks a tuning constant or returns the default. */
+export function tuningOrDefault(options: FitOptions, fallback: number): number {
+  const t = options.tuning ?? fallback;
+  if (!Number.isFinite(t) || t <= 0) throw new InputError('options.tuning', options.tuning, 'must be finite and > 0');
+  return t;
+}
+
+/** The MAD of the whitened residuals at β (the start's scale). */
+export function startScale(problem: LinearProblem, beta: Float64Array): number {
+  const r = residualsOf(problem, beta);
+  const w = problem.weights;
+  if (w) for (let i = 0; i < problem.n; i++) r[i] *= Math.sqrt(w[i]);
+  return madScale(r);
+}
+
+/** Runs IRLS from `start` at the fixed scale `start.scale` (> 0, finite) on a validated problem with n ≥ p. */
+export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, options: FitOptions): FitResult {
+  const { n, p, X, y, weights } = problem;
+  const tol = options.tolerance ?? IRLS_TOLERANCE;
+  const maxIterations = options.maxIterations ?? IRLS_MAX_ITERATIONS;
+  if (!(tol > 0) || !Number.isFinite(tol)) throw new InputError('options.tolerance', options.tolerance, 'must be finite and > 0');
+  if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('options.maxIterations', options.maxIterations, 'must be a whole number >= 1');
+  const s = start.scale;
+  const beta = Float64Array.from(start.coefficients);
+  const ws = createNormalWorkspace(problem, interceptColumn(problem));
+  // floorⱼ = s/rmsⱼ: the change of βⱼ that moves the whitened fit by one scale unit on average;
+  // relative change is measured against max(|βⱼ|, floorⱼ) so a coefficient near 0 can converge.
+  const floor = new Float64Array(p);
+  for (let j = 0; j < p; j++) floor[j] = s * Math.sqrt(n) * ws.scale[j];
+  const sw = new Float64Array(n);
+  for (let i = 0; i < n; i++) sw[i] = weights ? Math.sqrt(weights[i]) : 1;
+  const r = new Float64Array(n);
+  const v = new Float64Array(n);
+  const delta = new Float64Array(p);
+  let iterations = 0;
+  let change = Infinity;
+  let converged = false;
+  while (iterations < maxIterations) {
+    for (let i = 0; i < n; i++) {
+      let f = 0;
+      for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+      const ri = y[i] - f;
+      r[i] = ri;
+      v[i] = sw[i] * sw[i] * rho.weight((sw[i] * ri) / s);
+    }
+    accumulateNormal(ws, problem, r, v);
+    const ratio = factorNormal(ws);
+    if (!(ratio >= IRLS_MIN_PIVOT)) {
+      const out = noSolution(rho.estimator, problem, 'rank-deficient',
+        `after ${iterations} IRLS steps the reweighted design is numerically rank deficient (pivot ratio ${ratio.toExponential(2)} < ${IRLS_MIN_PIVOT.toExponential(2)}): too few readings keep a weight`);
+      out.iterations = iterations;
+      return out;
+    }
+    solveCorrection(ws, delta);
+    change = 0;
+    for (let j = 0; j < p; j++) {
+      change = Math.max(change, Math.abs(delta[j]) / Math.max(Math.abs(beta[j]), floor[j]));
+      beta[j] += delta[j];
+    }
+    iterations++;
+    if (change <= tol) {
+      converged = true;
+      break;
+    }
+  }
+  return finish(problem, rho, start, beta, sw, iterations, converged, change, tol, ws);
+}
+
+function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, sw: Float64Array,
+  iterations: number, converged: boolean, change: number, tol: number, ws: ReturnType<typeof createNormalWorkspace>): FitResult {
+  const { n, p } = problem;
+  const s = start.scale;
+  const residuals = residualsOf(problem, beta);
+  const robustWeights = new Float64Array(n);
+  let objective = 0;
+  let sumPsi2 = 0;
+  let sumD = 0;
+  let sumD2 = 0;
+  for (let i = 0; i < n; i++) {
+    const u = (sw[i] * residuals[i]) / s;
+    robustWeights[i] = rho.weight(u);
+    objective += rho.rho(u);
+    const ps = rho.psi(u);
+    sumPsi2 += ps * ps;
+    const d = rho.psiDerivative(u);
+    sumD += d;
+    sumD2 += d * d;
+  }
+  const what = `${rho.estimator} (tuning ${rho.tuning}) by IRLS from ${start.from}, scale ${s.toPrecision(6)} held fixed`;
+  const reason = converged
+    ? `${what}: relative change ${change.toExponential(1)} ≤ ${tol.toExponential(0)} after ${iterations} iterations`
+    : `${what}: did not converge in ${iterations} iterations (last relative change ${change.toExponential(1)} > ${tol.toExponential(0)})`;
+  const result: FitResult = {
+    estimator: rho.estimator,
+    status: converged ? 'ok' : 'not-converged',
+    coefficients: beta,
+    residuals,
+    objective,
+    scale: s,
+    iterations,
+    converged,
+    reason,
+    robustWeights,
+  };
+  // Huber's asymptotic covariance with his small-sample correction (Huber, "Robust Statistics",
+  // 1981, §7.6; statsmodels "H1", MASS summary.rlm):
+  //   K²·[Σψ²/(n − p)]/m²·s²·(XᵀWX)⁻¹,  m = mean ψ′,  K = 1 + (p/n)·var(ψ′)/m².
+  // It needs m > 0 (Tukey's ψ′ can make it ≤ 0) and n > p.
+  const m = sumD / n;
+  if (n > p && m > 0) {
+    const varD = Math.max(0, sumD2 / n - m * m);
+    const K = 1 + ((p / n) * varD) / (m * m);
+    const factor = ((K * K * (sumPsi2 / (n - p))) / (m * m)) * s * s;
+    const zero = new Float64Array(n);
+    accumulateNormal(ws, problem, zero, undefined);
+    if (factorNormal(ws) > 0) result.covariance = cofactorMatrix(ws).map((c) => c * factor);
+  }
+  return result;
+}
+
+/** The robust start when no warm start is given: the exact L1 fit (injected to keep this file free of it). */
+export type RobustStart = (problem: LinearProblem) => FitResult;
+
+/**
+ * The shared M-estimator driver: checks, chooses the start and the fixed scale, runs IRLS.
+ * Start: a usable warm start (right length, finite), else `robustStart` (the L1 fit). Scale:
+ * options.scale, else the warm start's scale, else the MAD of the start's whitened residuals.
+ */
+export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: FitOptions, robustStart: RobustStart): FitResult {
+  const { n, p } = problem;
+  if (n < p) return noSolution(rho.estimator, problem, 'too-few-rows', `${n} rows for ${p} parameters`);
+  if (options.scale !== undefined && (!Number.isFinite(options.scale) || options.scale <= 0)) {
+    throw new InputError('options.scale', options.scale, 'a fixed scale must be finite and > 0');
+  }
+  const warm = options.warmStart;
+  let coefficients: Float64Array | null = null;
+  let from = '';
+  let warmNote = '';
+  if (warm) {
+    const c = warm.coefficients;
+    if (c.length === p && Array.from(c).every(Number.isFinite)) {
+      coefficients = Float64Array.from(c);
+      from = 'the warm start';
+    } else {
+      warmNote = ` (warm start ignored: ${c.length} coefficients for ${p} parameters or a non-finite value)`;
+    }
+  }
+  let scale = options.scale;
+  if (coefficients && scale === undefined && warm?.scale !== undefined && Number.isFinite(warm.scale) && warm.scale > 0) scale = warm.scale;
+  if (!coefficients) {
+    const l1 = robustStart(problem);
+    if (l1.status !== 'ok') {
+      return noSolution(rho.estimator, problem, l1.status, `the robust start (least absolute deviations) failed: ${l1.reason}`);
+    }
+    coefficients = Float64Array.from(l1.coefficients);
+    from = 'the least-absolute-deviations fit';
+  }
+  from += warmNote;
+  if (scale === undefined) scale = startScale(problem, coefficients);
+  if (scale === 0) {
+    // More than half the whitened residuals of the start are exactly zero: the start fits the
+    // majority exactly and every ψ-weighting of the rest would divide by zero. Report the limit
+    // s → 0: exact rows keep weight 1 and ρ(0) = 0, the others have u = ∞.
+    const residuals = residualsOf(problem, coefficients);
+    const robustWeights = new Float64Array(n);
+    let objective = 0;
+    for (let i = 0; i < n; i++) {
+      const u = residuals[i] === 0 ? 0 : Infinity;
+      robustWeights[i] = rho.weight(u);
+      objective += rho.rho(u);
+    }
+    return {
+      estimator: rho.estimator, status: 'ok', coefficients, residuals, objective, scale: 0, iterations: 0, converged: true,
+      reason: `scale 0 at the start (${from}): more than half the readings fit it exactly, so it is the estimate`,
+      robustWeights,
+    };
+  }
+  return irls(problem, rho, { coefficients, scale, from }, options);
+}

@@ -1,0 +1,112 @@
+// Median, MAD scale and an O(n) selection.
+//
+// Selection is Floyd & Rivest, "Algorithm 489: SELECT", CACM 18(3) 1975: recurse on a small
+// sample to pick two pivots that bracket the k-th value with high probability, then partition.
+// Expected comparisons n + min(k, n−k) + o(n); exact (it only permutes values, no arithmetic).
+// The MAD scale is σ ≈ (1/Φ⁻¹(3/4))·median|rᵢ − median r| (check-values.md: 1.4826, consistent
+// at the normal; Hampel 1974).
+import { InputError } from '../errors.ts';
+
+/** 1/Φ⁻¹(3/4) = 1/0.6744897501960817 ≈ 1.4826: the MAD is then consistent for σ at the normal. */
+export const MAD_CONSISTENCY = 1 / 0.6744897501960817;
+
+/** Below this many elements Floyd–Rivest's sampling step is not worth it (the paper uses 600). */
+const SAMPLE_THRESHOLD = 600;
+
+/**
+ * Rearranges a[left..right] so that a[k] is the value that would be there after sorting, with
+ * smaller-or-equal values before it and larger-or-equal after. In place; returns a[k].
+ */
+export function quickselect(a: Float64Array, k: number, left = 0, right = a.length - 1): number {
+  if (!Number.isInteger(left) || !Number.isInteger(right) || left < 0 || right >= a.length || left > right) {
+    throw new InputError('range', [left, right], `must lie within [0, ${a.length - 1}]`);
+  }
+  if (!Number.isInteger(k) || k < left || k > right) throw new InputError('k', k, `must be a whole number in [${left}, ${right}]`);
+  return selectRange(a, k, left, right);
+}
+
+// The sample bracket always contains k (its half-width exceeds the shift once n > 600), so the
+// recursion needs no checks.
+function selectRange(a: Float64Array, k: number, left: number, right: number): number {
+  while (right > left) {
+    if (right - left > SAMPLE_THRESHOLD) {
+      // Narrow [left, right] to a sample-based bracket around k (Floyd–Rivest, constants from the paper).
+      const n = right - left + 1;
+      const i = k - left + 1;
+      const z = Math.log(n);
+      const s = 0.5 * Math.exp((2 * z) / 3);
+      const sd = 0.5 * Math.sqrt((z * s * (n - s)) / n) * Math.sign(i - n / 2);
+      const newLeft = Math.max(left, Math.floor(k - (i * s) / n + sd));
+      const newRight = Math.min(right, Math.floor(k + ((n - i) * s) / n + sd));
+      selectRange(a, k, newLeft, newRight);
+    }
+    const t = a[k];
+    let i = left;
+    let j = right;
+    swap(a, left, k);
+    if (a[right] > t) swap(a, left, right);
+    while (i < j) {
+      swap(a, i, j);
+      i++;
+      j--;
+      while (a[i] < t) i++;
+      while (a[j] > t) j--;
+    }
+    if (a[left] === t) swap(a, left, j);
+    else {
+      j++;
+      swap(a, j, right);
+    }
+    if (j <= k) left = j + 1;
+    if (k <= j) right = j - 1;
+  }
+  return a[k];
+}
+
+function swap(a: Float64Array, i: number, j: number): void {
+  const t = a[i];
+  a[i] = a[j];
+  a[j] = t;
+}
+
+function checkValues(values: ArrayLike<number>, field: string): void {
+  if (values.length === 0) throw new InputError(field, values, 'needs at least one value');
+  for (let i = 0; i < values.length; i++) {
+    if (!Number.isFinite(values[i])) throw new InputError(`${field}[${i}]`, values[i], 'must be finite');
+  }
+}
+
+/**
+ * Median of the values in a scratch buffer (reordered in place). For even n the mean of the two
+ * middle values: after selecting the upper middle, the lower middle is the largest value left of it.
+ */
+export function medianInPlace(scratch: Float64Array, length = scratch.length): number {
+  const n = length;
+  const upper = n >> 1;
+  const hi = quickselect(scratch, upper, 0, n - 1);
+  if (n % 2 === 1) return hi;
+  let lo = scratch[0];
+  for (let i = 1; i < upper; i++) if (scratch[i] > lo) lo = scratch[i];
+  const mid = (lo + hi) / 2;
+  return Number.isFinite(mid) ? mid : lo / 2 + hi / 2;
+}
+
+/** Median of finite values (the input is not modified). */
+export function median(values: ArrayLike<number>): number {
+  checkValues(values, 'values');
+  return medianInPlace(Float64Array.from(values));
+}
+
+/**
+ * MAD scale (1/Φ⁻¹(3/4))·median|vᵢ − median v|. Zero when more than half the values are equal —
+ * a true outcome (identical repeats), left for the caller to report.
+ */
+export function madScale(values: ArrayLike<number>, scratch?: Float64Array): number {
+  checkValues(values, 'values');
+  const n = values.length;
+  const buf = scratch && scratch.length >= n ? scratch : new Float64Array(n);
+  for (let i = 0; i < n; i++) buf[i] = values[i];
+  const m = medianInPlace(buf, n);
+  for (let i = 0; i < n; i++) buf[i] = Math.abs(values[i] - m);
+  return MAD_CONSISTENCY * medianInPlace(buf, n);
+}
