@@ -1,10 +1,23 @@
 /// <reference types="vitest/config" />
 import { defineConfig } from 'vite';
 import react from '@vitejs/plugin-react';
+import { VitePWA } from 'vite-plugin-pwa';
+import { appManifest, buildId, workboxOptions } from './src/ui/pwa/pwa-config.ts';
 
-// Web app build and unit-test configuration. The PWA plugin is added by the field-app work.
+// Web app build and unit-test configuration. PWA decisions: see DEVELOPERS.md "The field app".
 export default defineConfig({
-  plugins: [react()],
+  plugins: [
+    react(),
+    // registerType 'prompt': a new version waits for the person's "Reload" (never a silent reload
+    // that loses a form — field-traps R-2.1); src/ui/pwa/register-app-worker.ts registers it.
+    VitePWA({ registerType: 'prompt', injectRegister: false, manifest: appManifest, workbox: workboxOptions }),
+  ],
+  define: { __ARCFIELD_BUILD_ID__: JSON.stringify(buildId()) },
+  build: {
+    // @ionic/core's per-component modules are side-effect free in practice but not marked so;
+    // declaring them so lets the bundler drop unused components (/work/shared/toolchain.md §1).
+    rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !/[\\/]@ionic[\\/]core[\\/]components[\\/]ion-[^\\/]+\.js$/.test(id) } },
+  },
   test: {
     environment: 'node',
     include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],

@@ -1,6 +1,49 @@
-// Web app entry point (placeholder until the field-app screens land).
+// Web app entry: open the device store, start the solve worker and the service worker (web only),
+// then render. A store that cannot open is reported in words, never a blank screen.
+import '@ionic/react/css/core.css';
+import '@ionic/react/css/normalize.css';
+import '@ionic/react/css/structure.css';
+import '@ionic/react/css/typography.css';
+import '@ionic/react/css/palettes/dark.class.css';
+import '@ionic/react/css/palettes/high-contrast.class.css';
+import '@ionic/react/css/palettes/high-contrast-dark.class.css';
+import './app.css';
+import { Capacitor } from '@capacitor/core';
+import { Geolocation } from '@capacitor/geolocation';
+import { setupIonicReact } from '@ionic/react';
 import { createRoot } from 'react-dom/client';
+import { browserStorage, classifyStorageError, openFieldStore, readSetting } from '../store/index.ts';
+import { SolveClient } from '../worker/index.ts';
+import { App } from './app.tsx';
+import { LiveFitHub } from './live/index.ts';
+import { AppUpdates } from './pwa/index.ts';
+import { readAppSettings, SETTING_APP } from './settings/app-settings.ts';
 
-const root = document.getElementById('root');
-if (!root) throw new Error('index.html has no #root element');
-createRoot(root).render(<main><h1>arcfield</h1></main>);
+declare const __ARCFIELD_BUILD_ID__: string;
+
+async function boot(rootEl: HTMLElement): Promise<void> {
+  const root = createRoot(rootEl);
+  const updates = new AppUpdates();
+  updates.start();
+  let store;
+  try {
+    store = await openFieldStore();
+  } catch (err) {
+    const e = classifyStorageError(err, 'database', 'arcfield');
+    root.render(<main style={{ padding: 16 }}><h1>arcfield cannot open its storage</h1><p>{e.reason}</p><p>({e.causeName})</p></main>);
+    return;
+  }
+  const settings = readAppSettings(await readSetting(store.db, SETTING_APP));
+  setupIonicReact({ animated: !settings.reduceMotion });
+  const solver = new SolveClient();
+  const fits = new LiveFitHub(store.db, solver, settings);
+  const services = {
+    store, fits, updates, geolocation: Geolocation, storage: browserStorage(),
+    platform: Capacitor.getPlatform(), buildId: __ARCFIELD_BUILD_ID__,
+  };
+  root.render(<App services={services} />);
+}
+
+const rootEl = document.getElementById('root');
+if (!rootEl) throw new Error('index.html has no #root element');
+void boot(rootEl);

@@ -1,0 +1,2 @@
+// Display formatting shared by the screens.
+export * from './format-values.ts';

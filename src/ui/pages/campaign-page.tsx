@@ -1,0 +1,82 @@
+// One campaign: the running fit, the capture actions, its stations (with reading counts) and arcs.
+import {
+  IonBackButton, IonButton, IonButtons, IonContent, IonHeader, IonItem, IonLabel, IonList, IonListHeader, IonNote,
+  IonPage, IonTitle, IonToolbar,
+} from '@ionic/react';
+import { useLiveQuery } from 'dexie-react-hooks';
+import { useParams } from 'react-router-dom';
+import { countReadings, getCampaign, readingPage, stationsOf } from '../../store/index.ts';
+import { LiveFitStrip } from '../components/index.ts';
+import { formatLength } from '../format/index.ts';
+import { useAppSettings, useLiveFit, useServices } from '../live/index.ts';
+
+/** The campaign screen lists this many arcs inline; the rest are on the readings screen. */
+const INLINE_ARCS = 50;
+
+export function CampaignPage() {
+  const { cid = '' } = useParams();
+  const { store } = useServices();
+  const { settings } = useAppSettings();
+  const fit = useLiveFit(cid);
+  const campaign = useLiveQuery(() => getCampaign(store.db, cid), [store, cid]);
+  const stations = useLiveQuery(() => stationsOf(store.db, cid), [store, cid]);
+  const arcs = useLiveQuery(() => readingPage(store.db, cid, 'arc', 0, INLINE_ARCS), [store, cid]);
+  const counts = useLiveQuery(async () => (await countReadings(store.db, cid, 'latitude')) + (await countReadings(store.db, cid, 'arc')), [store, cid]);
+  const summaryOf = new Map((fit.result?.stations ?? []).map((s) => [s.code, s]));
+  const suspectIds = new Set((fit.result?.readings ?? []).filter((r) => r.suspect && !r.excluded).map((r) => r.id));
+
+  return (
+    <IonPage>
+      <IonHeader>
+        <IonToolbar color="primary">
+          <IonButtons slot="start"><IonBackButton defaultHref="/campaigns" text="Campaigns" /></IonButtons>
+          <IonTitle data-testid="campaign-title">{campaign?.record?.name ?? 'Campaign'}</IonTitle>
+        </IonToolbar>
+      </IonHeader>
+      <IonContent>
+        {campaign === undefined && stations !== undefined && <p className="af-error">This campaign is not on this device.</p>}
+        <LiveFitStrip campaignId={cid} />
+        <div className="af-actions">
+          <IonButton className="af-primary-action" expand="block" routerLink={`/campaigns/${cid}/latitude/new`} data-testid="add-latitude">Latitude reading</IonButton>
+          <IonButton className="af-primary-action" expand="block" routerLink={`/campaigns/${cid}/arcs/new`} data-testid="add-arc">Arc reading</IonButton>
+          <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/stations/new`} data-testid="add-station">Add station</IonButton>
+          <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/fit`} data-testid="open-fit">Fit and suspects</IonButton>
+          <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/readings`} data-testid="open-readings">All readings ({counts ?? '…'})</IonButton>
+          <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/sync`} data-testid="open-sync">Sync</IonButton>
+        </div>
+
+        <IonList data-testid="station-list">
+          <IonListHeader><IonLabel>Stations ({stations?.length ?? '…'})</IonLabel></IonListHeader>
+          {stations?.length === 0 && <p className="af-hint">No station yet: add one, then its readings.</p>}
+          {stations?.map((s) => {
+            const sum = summaryOf.get(s.code);
+            const flagged = sum?.suspectReadingIds.some((id) => suspectIds.has(id));
+            return (
+              <IonItem key={s.id} button detail routerLink={`/campaigns/${cid}/stations/${encodeURIComponent(s.code)}`} data-testid="station-item">
+                <IonLabel>
+                  <h2>{s.code}{s.record?.name ? ` — ${s.record.name}` : ''}</h2>
+                  <p>{s.record?.heightM !== undefined ? `h ${s.record.heightM} m · ` : ''}{sum ? `${sum.readingCount} ${sum.kind} reading${sum.readingCount === 1 ? '' : 's'}` : 'no readings yet'}</p>
+                </IonLabel>
+                {flagged && <IonNote slot="end" className="af-suspect">suspect</IonNote>}
+              </IonItem>
+            );
+          })}
+        </IonList>
+
+        <IonList data-testid="arc-list">
+          <IonListHeader><IonLabel>Arcs ({arcs?.total ?? '…'})</IonLabel></IonListHeader>
+          {arcs?.rows.map((a) => a.record && (
+            <IonItem key={a.id} button detail routerLink={`/campaigns/${cid}/arcs/${a.id}`} data-testid="arc-item">
+              <IonLabel>
+                <h2>{a.fromStation} – {a.toStation}</h2>
+                <p>{formatLength(a.record.distanceM, settings.lengthUnit)} ± {formatLength(a.record.sigmaM, settings.lengthUnit)}</p>
+              </IonLabel>
+              {suspectIds.has(a.id) && <IonNote slot="end" className="af-suspect">suspect</IonNote>}
+            </IonItem>
+          ))}
+          {arcs && arcs.total > INLINE_ARCS && <p className="af-hint">Showing {INLINE_ARCS} of {arcs.total}; see All readings.</p>}
+        </IonList>
+      </IonContent>
+    </IonPage>
+  );
+}
