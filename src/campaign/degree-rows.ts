@@ -1,8 +1,9 @@
 // Arcs → rows of the classic degree-length model y = c + m·x (+ k·x²):
 //     y = s₀ / |Δφ|   metres per degree of latitude,   x = sin²φ_mid,   φ_mid = (φ₁ + φ₂)/2.
-// Treating the arc's mean degree length as the degree length at φ_mid drops a term of order
-// m·cos2φ_mid·Δφ²/12 (≈ 0.35 m/degree for a 5° arc); the model-error statement covers it, since it
-// is computed from exact arcs at the campaign's own latitudes.
+// s₀/|Δφ| is the arc's MEAN degree length, not the one at φ_mid: they differ by M″Δφ²/24 ≈
+// 3e²c·cos2φ_mid·Δφ²/24 (≈ 0.35 m/degree on a 5° arc). Being linear in x, the difference is absorbed
+// into c and m (+0.4 in 1/f on 5° arcs if read by the series inversions); the figure is therefore
+// taken by the geodesy layer's inversion by arcs, which expects exactly these classic rows.
 //
 // Weighting `propagated`: first-order propagation of the distance sigma and both stations'
 // latitude sigmas through y = s/Δφ (Δφ and σ_φ in degrees):
@@ -27,6 +28,8 @@ export interface ArcGeometry {
 
 export interface DegreeRow {
   id: string;
+  latitude1Deg: number;
+  latitude2Deg: number;
   /** sin²φ_mid. */
   x: number;
   midLatitudeDeg: number;
@@ -46,7 +49,7 @@ export function degreeRow(arc: ArcGeometry, weighting: WeightingId): DegreeRow {
   const sPhi2 = arc.sigmaLatitude2Arcsec / 3600;
   const sigmaY = Math.sqrt((arc.sigmaM / dPhi) ** 2 + (s / (dPhi * dPhi)) ** 2 * (sPhi1 * sPhi1 + sPhi2 * sPhi2));
   const sinMid = Math.sin((mid * Math.PI) / 180);
-  return { id: arc.id, x: sinMid * sinMid, midLatitudeDeg: mid, y, sigmaY, weight: weighting === 'equal' ? 1 : 1 / (sigmaY * sigmaY) };
+  return { id: arc.id, latitude1Deg: arc.latitude1Deg, latitude2Deg: arc.latitude2Deg, x: sinMid * sinMid, midLatitudeDeg: mid, y, sigmaY, weight: weighting === 'equal' ? 1 : 1 / (sigmaY * sigmaY) };
 }
 
 export function degreeRows(arcs: readonly ArcGeometry[], weighting: WeightingId): DegreeRow[] {

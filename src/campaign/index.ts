@@ -8,3 +8,12 @@ export { reduceStationLatitudes, HUBER_LOCATION_K, type StationLatitude, type La
 export { reduceArcToEllipsoid, arcMeanHeight, type ArcHeightSource } from './reduce-arc.ts';
 export { degreeRow, degreeRows, type ArcGeometry, type DegreeRow } from './degree-rows.ts';
 export { formatSigma } from './format-sigma.ts';
+export { prepareArcs, MIN_ARC_SPAN_DEG, type PreparedArc } from './prepare-arcs.ts';
+export { fitEllipsoidToArcs, F_SEARCH_MIN, F_SEARCH_MAX, F_TOLERANCE, F_GRID_STEP, type ArcForFit, type RigorousFitResult } from './rigorous-fit.ts';
+export { fitDegreeModel, degreeProblem, DEGREE_COEFFICIENT_NAMES, type DegreeModelId } from './degree-model.ts';
+export { degreeModelError, type ModelErrorStatement } from './model-error.ts';
+export { degreeFigure, ellipsoidFigure } from './figure-uncertainty.ts';
+export { flagResiduals, type ResidualFlags } from './residual-flags.ts';
+export { solveCampaign, DEFAULT_SUSPECT_THRESHOLD, DEFAULT_REFERENCE_ELLIPSOID, CHI_SQUARE_ALPHA } from './solve-campaign.ts';
+export { demoCampaign, DEMO_BLUNDERS, DEMO_SEED, DEMO_ELLIPSOID_ID } from './demo.ts';
+export { seededRandom, type SeededRandom } from './seeded-random.ts';

@@ -47,6 +47,11 @@ export interface ReadingResult {
   redundancy?: number;
   wTest?: number;
   minimalDetectableBias?: number;
+  /** False when the reading could not enter the fit (e.g. an arc whose station has no latitude of the
+   *  chosen kind); its residual and standardized residual are then 0 and the hint says why. */
+  usedInFit?: boolean;
+  /** The station a latitude reading belongs to, or the arc's two stations "K04–K05". */
+  station?: string;
 }
 
 export interface StationSummary {
@@ -61,6 +66,10 @@ export interface StationSummary {
   /** Astronomic minus geodetic latitude, arcseconds, when both kinds exist (north–south deflection). */
   deflectionNorthArcsec: number | null;
   suspectReadingIds: string[];
+  /** σ of the deflection, arcseconds (both kinds' standard errors combined). */
+  deflectionNorthStdArcsec?: number | null;
+  /** False when the station has no reading of the kind that feeds the fit (then `kind` is the other one). */
+  usedInFit?: boolean;
 }
 
 export interface FitQuality {
@@ -102,4 +111,8 @@ export interface SolveOptions {
   suspectThreshold?: number;  // default 3 (common practice)
   /** The previous result for this campaign: warm start for the iterative and exact estimators. */
   previous?: CampaignResult;
+  /** Which latitude kind feeds the arcs; default astronomic (astro-geodetic arcs use astronomic latitudes). */
+  latitudeKind?: LatitudeKind;
+  /** Reference ellipsoid id for the reductions (meridian radius, model-error statement); default wgs84 (WGS 84). */
+  referenceEllipsoid?: string;
 }

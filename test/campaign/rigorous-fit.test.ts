@@ -1,0 +1,93 @@
+// The rigorous ellipsoid fit against arcs from GeographicLib (geographiclib-geodesic 2.2, the outside
+// reference for meridian distances). Defining constants from check-values.md (from memory).
+import { describe, expect, it } from 'vitest';
+import { solveCampaign } from '../../src/campaign/index.ts';
+import { exactCampaign, geographicLibArcM } from './helpers/exact-campaign.ts';
+import { within } from '../helpers/within.ts';
+
+const GLIB = 'GeographicLib 2.2 (geographiclib-geodesic) meridian arcs';
+// WGS 84: a = 6 378 137 m, 1/f = 298.257 223 563 (NIMA TR8350.2 — from memory).
+const WGS84 = { a: 6378137, invf: 298.257223563 };
+// Clarke 1866: a = 6 378 206.4 m, b = 6 356 583.8 m (classical definition — from memory).
+const CLARKE = { a: 6378206.4, invf: 6378206.4 / (6378206.4 - 6356583.8) };
+const LATS = [5, 11, 17, 23, 29, 35, 41, 47, 53, 59, 65];
+
+describe('rigorous ellipsoid fit', () => {
+  for (const [name, e] of [['WGS 84', WGS84], ['Clarke 1866', CLARKE]] as const) {
+    it(`recovers ${name} from exact arcs: a to 1 mm, 1/f to 1e-5`, () => {
+      const r = solveCampaign(exactCampaign({ a: e.a, f: 1 / e.invf, latitudesDeg: LATS }), { model: 'ellipsoid' });
+      expect(r.status).toBe('ok');
+      expect(r.converged).toBe(true);
+      within(r.figure?.semiMajorAxisM ?? 0, e.a, 1e-3, 'm', `${name} a`, { source: GLIB });
+      within(r.figure?.inverseFlattening ?? 0, e.invf, 1e-5, '', `${name} 1/f`, { source: GLIB });
+      // Quadrant: GeographicLib's equator-to-pole distance on the same ellipsoid.
+      within(r.figure?.quadrantM ?? 0, geographicLibArcM(e.a, 1 / e.invf, 0, 90), 2e-3, 'm', `${name} quadrant`, { source: GLIB });
+      for (const rd of r.readings.filter((x) => x.kind === 'arc')) within(rd.residual, 0, 2e-3, 'm', `residual ${rd.id}`, { source: GLIB });
+      expect(r.readings.some((x) => x.suspect)).toBe(false);
+    });
+  }
+
+  it('WGS 84 quadrant recovered is the published 10 001 965.729 m', () => {
+    // Meridian quadrant 10 001 965.7293 m (NIMA TR8350.2 derived constants — from memory).
+    const r = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS }));
+    within(r.figure?.quadrantM ?? 0, 10001965.7293, 2e-3, 'm', 'quadrant', { source: 'NIMA TR8350.2 (from memory)' });
+  });
+
+  it('is a least-squares optimum: the objective with GeographicLib distances rises in every direction', () => {
+    // Brute force around the reported (a, f): recompute Σw r² with GeographicLib for perturbed figures.
+    const rec = exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS, seed: 7, sigmaArcsec: 0.2, sigmaM: 0.5 });
+    const r = solveCampaign(rec, { model: 'ellipsoid', estimator: 'least-squares' });
+    const a = r.figure?.semiMajorAxisM ?? 0;
+    const f = r.figure?.flattening ?? 0;
+    const arcSigma = new Map(r.readings.filter((x) => x.kind === 'arc').map((x) => [x.id, x]));
+    const lat = new Map(r.stations.map((s) => [s.code, s.latitudeDeg]));
+    const sig = new Map(r.stations.map((s) => [s.code, s.sigmaArcsec]));
+    const objective = (aa: number, ff: number): number => rec.arcReadings.reduce((sum, arc) => {
+      const l1 = lat.get(arc.fromStation) ?? 0;
+      const l2 = lat.get(arc.toStation) ?? 0;
+      const m = 6.36e6 * Math.PI / 648000; // metres per arcsecond, ample for weights
+      const s2 = arc.sigmaM ** 2 + (m * (sig.get(arc.fromStation) ?? 0)) ** 2 + (m * (sig.get(arc.toStation) ?? 0)) ** 2;
+      return sum + (arc.distanceM - geographicLibArcM(aa, ff, l1, l2)) ** 2 / s2;
+    }, 0);
+    expect(arcSigma.size).toBe(10);
+    const base = objective(a, f);
+    const sa = r.figure?.semiMajorAxisStdM ?? 1;
+    const sf = (r.figure?.inverseFlatteningStd ?? 1) * f * f;
+    for (const [da, df] of [[1, 0], [-1, 0], [0, 1], [0, -1], [1, 1], [-1, -1], [1, -1], [-1, 1]]) {
+      expect(objective(a + 0.05 * sa * da, f + 0.05 * sf * df)).toBeGreaterThan(base);
+    }
+  });
+
+  it('with seeded noise: within 4 standard errors of WGS 84, and the errors are plausible', () => {
+    const seed = 424242;
+    console.log(`rigorous noisy recovery seed ${seed}`);
+    const r = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS, seed, sigmaArcsec: 0.1, sigmaM: 1 }));
+    const fig = r.figure;
+    if (!fig || fig.semiMajorAxisStdM === null || fig.inverseFlatteningStd === null) throw new Error('no figure');
+    expect(Math.abs(fig.semiMajorAxisM - WGS84.a)).toBeLessThan(4 * fig.semiMajorAxisStdM);
+    expect(Math.abs(fig.inverseFlattening - WGS84.invf)).toBeLessThan(4 * fig.inverseFlatteningStd);
+    // 0.1″ ≈ 3 m per station: a known to tens of metres, 1/f to about one unit (order of magnitude).
+    expect(fig.semiMajorAxisStdM).toBeGreaterThan(2);
+    expect(fig.semiMajorAxisStdM).toBeLessThan(200);
+  });
+
+  for (const estimator of ['least-absolute', 'huber', 'tukey'] as const) {
+    it(`${estimator} ignores one 80 m arc blunder and flags it`, () => {
+      const rec = exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS, seed: 99, sigmaArcsec: 0.05, sigmaM: 0.5, arcBlunders: { 4: 80 } });
+      const r = solveCampaign(rec, { estimator });
+      expect(r.status).toBe('ok');
+      within(r.figure?.inverseFlattening ?? 0, WGS84.invf, 1.5, '', `${estimator} 1/f`, { source: GLIB });
+      within(r.figure?.semiMajorAxisM ?? 0, WGS84.a, 60, 'm', `${estimator} a`, { source: GLIB });
+      const flagged = r.readings.filter((x) => x.suspect).map((x) => x.id);
+      expect(flagged).toEqual(['a-5']);
+      expect(r.readings.find((x) => x.id === 'a-5')?.hint).toMatch(/^re-observe arc K05–K06: \+\d+\.\dσ$/);
+    });
+  }
+
+  it('minimax on exact arcs also recovers WGS 84 (no covariance: uncertainties null)', () => {
+    const r = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS }), { estimator: 'minimax' });
+    within(r.figure?.inverseFlattening ?? 0, WGS84.invf, 1e-4, '', 'minimax 1/f', { source: GLIB });
+    within(r.figure?.semiMajorAxisM ?? 0, WGS84.a, 5e-3, 'm', 'minimax a', { source: GLIB });
+    expect(r.figure?.semiMajorAxisStdM).toBeNull();
+  });
+});
