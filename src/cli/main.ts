@@ -10,15 +10,16 @@ interface CommandEntry {
   load: () => Promise<unknown>;
 }
 
-// Specifier through a variable: `serve.ts` belongs to the sync layer and may not exist in this tree yet.
-const serveModule = './serve.ts';
+// Commands owned by other layers are loaded through a variable specifier, so this dispatcher
+// type-checks and runs (with a clear message for that command) before their module lands.
+const lazy = (specifier: string) => (): Promise<unknown> => import(/* @vite-ignore */ specifier);
 
 const COMMANDS: Record<string, CommandEntry> = {
   fit: { summary: 'fit the figure of the Earth to a campaign file and list suspect readings', load: () => import('./fit-command.ts') },
   demo: { summary: 'write the invented demo campaign (a known ellipsoid with planted blunders)', load: () => import('./demo-command.ts') },
-  import: { summary: 'import a CSV table into a campaign file', load: () => import('./import-command.ts') },
-  export: { summary: 'export a campaign as CSV, GeoJSON or a campaign file', load: () => import('./export-command.ts') },
-  serve: { summary: 'run the sync server', load: () => import(/* @vite-ignore */ serveModule) },
+  import: { summary: 'import a CSV table into a campaign file', load: lazy('./import-command.ts') },
+  export: { summary: 'export a campaign as CSV, GeoJSON or a campaign file', load: lazy('./export-command.ts') },
+  serve: { summary: 'run the sync server', load: lazy('./serve.ts') },
 };
 
 function usage(): string {
@@ -55,7 +56,7 @@ export async function main(argv: readonly string[]): Promise<number> {
     mod = await entry.load();
   } catch (err) {
     const code = (err as { code?: unknown }).code;
-    if (code === 'ERR_MODULE_NOT_FOUND' && String((err as Error).message).includes(`${command}`)) {
+    if (code === 'ERR_MODULE_NOT_FOUND' && String((err as Error).message).includes(`/src/cli/${command}`)) {
       process.stderr.write(`arcfield: the ${command} command is not part of this build yet\n`);
       return 1;
     }
