@@ -19,6 +19,8 @@ const COMMANDS: Record<string, CommandEntry> = {
   demo: { summary: 'write the invented demo campaign (a known ellipsoid with planted blunders)', load: () => import('./demo-command.ts') },
   import: { summary: 'import a CSV table into a campaign file', load: lazy('./import-command.ts') },
   export: { summary: 'export a campaign as CSV, GeoJSON or a campaign file', load: lazy('./export-command.ts') },
+  plan: { summary: 'rank candidate next stations and repeats by the 1/f standard error they leave', load: lazy('./plan-command.ts') },
+  report: { summary: 'write the printable campaign report (self-contained HTML)', load: lazy('./report-command.ts') },
   serve: { summary: 'run the sync server', load: lazy('./serve.ts') },
 };
 
