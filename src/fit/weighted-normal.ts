@@ -178,6 +178,29 @@ function toCoefficients(ws: NormalWorkspace, v: Float64Array): void {
   }
 }
 
+/**
+ * The diagonal of (XᵀVX)⁻¹ in the units of β, from the last factorisation, without allocating:
+ * Qⱼⱼ = tⱼᵀG⁻¹tⱼ = ‖L⁻¹P tⱼ‖² with tⱼ row j of the θ→β map.
+ */
+export function cofactorDiagonal(ws: NormalWorkspace, out: Float64Array): void {
+  const { p, order, chol, scale, shift, intercept, interceptValue, z, theta } = ws;
+  for (let j = 0; j < p; j++) {
+    z.fill(0);
+    z[j] = scale[j];
+    if (j === intercept) {
+      for (let k = 0; k < p; k++) if (k !== intercept) z[k] = (-shift[k] * scale[k]) / interceptValue;
+    }
+    let sum = 0;
+    for (let a = 0; a < p; a++) {
+      let t = z[order[a]];
+      for (let c = 0; c < a; c++) t -= chol[a * p + c] * theta[c];
+      theta[a] = t / chol[a * p + a];
+      sum += theta[a] * theta[a];
+    }
+    out[j] = sum;
+  }
+}
+
 /** (XᵀVX)⁻¹ in the units of β (row-major p×p), from the last factorisation. */
 export function cofactorMatrix(ws: NormalWorkspace): Float64Array {
   const { p } = ws;
