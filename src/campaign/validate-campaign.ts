@@ -1,9 +1,10 @@
 // Validation of a campaign document: the zod schema (shape, units, ranges, non-finite numbers)
 // plus the cross-record checks a schema cannot express (unique ids, station codes that exist,
-// exclusions that point at a reading). Every problem is collected — a crew fixing a file wants the
+// exclusions that point at a reading, a reference ellipsoid the geodesy layer knows). Every problem is collected — a crew fixing a file wants the
 // whole list at once, not one error per run — and reported as {field path, value, reason}.
 import type { z } from 'zod';
 import { ValidationError, type Problem } from '../errors.ts';
+import { ELLIPSOID_IDS, isEllipsoidId } from '../geodesy/index.ts';
 import { CampaignFileSchema, type CampaignFile, type CampaignRecords } from './records.ts';
 
 /** `latitudeReadings[3].sigmaArcsec` from ['latitudeReadings', 3, 'sigmaArcsec']. */
@@ -103,6 +104,11 @@ export function crossRecordProblems(input: unknown): Problem[] {
       problems.push({ field: `arcReadings[${i}].toStation`, value: r.toStation, reason: 'an arc needs two different stations' });
     }
   });
+
+  const reference = asString(asRecord(doc.settings).referenceEllipsoid);
+  if (reference !== undefined && !isEllipsoidId(reference)) {
+    problems.push({ field: 'settings.referenceEllipsoid', value: reference, reason: `unknown ellipsoid; use one of ${ELLIPSOID_IDS.join(', ')}` });
+  }
 
   const readingIds = new Set<string>();
   for (const r of [...latitudeReadings, ...arcReadings]) {

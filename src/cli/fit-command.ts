@@ -4,7 +4,7 @@
 // the engine defaults (ellipsoid, least-squares, propagated).
 // Exit: 0 a figure (also when an iterative estimator stopped at its cap — a warning is printed),
 // 2 bad input (the file, an option, or a campaign that cannot determine a figure), 1 internal failure.
-import { ValidationError, type Problem } from '../errors.ts';
+import { InputError, ValidationError, type Problem } from '../errors.ts';
 import { ESTIMATOR_IDS, MODEL_IDS, WEIGHTING_IDS, solveCampaign, type SolveOptions } from '../campaign/index.ts';
 import { loadCampaignFile } from '../io/campaign-file.ts';
 import { parseCommandArgs, pickChoice, reportProblems } from './cli-args.ts';
@@ -73,7 +73,14 @@ export async function run(args: readonly string[]): Promise<number> {
     weighting: weighting ?? file.settings?.weighting,
     suspectThreshold: file.settings?.suspectThreshold,
   };
-  const result = solveCampaign(file, options);
+  let result;
+  try {
+    result = solveCampaign(file, options);
+  } catch (err) {
+    // An option value the engine refuses (the file passed the schema): bad input, named.
+    if (err instanceof InputError) return reportProblems(new ValidationError([{ field: err.field, value: err.value, reason: err.reason, source: path }], path));
+    throw err;
+  }
   if (parsed.values.json === true) process.stdout.write(JSON.stringify(result, null, 2) + '\n');
   else process.stdout.write(formatResultTable(file, result));
 

@@ -85,6 +85,12 @@ describe('validateCampaign', () => {
     expect(notObject.problems[0].field).toBe('(document)');
   });
 
+  it('names an unknown reference ellipsoid with the known ids', () => {
+    const doc = { ...(fixture('small-valid.json') as object), settings: { referenceEllipsoid: 'WGS-84' } };
+    const check = checkCampaignFile(doc);
+    expect(check.problems).toEqual([{ field: 'settings.referenceEllipsoid', value: 'WGS-84', reason: expect.stringMatching(/unknown ellipsoid; use one of wgs84, /) as string }]);
+  });
+
   it('checkCampaignRecords runs the cross checks on typed records', () => {
     const problems = checkCampaignRecords({
       name: 'x', stations: [{ code: 'K01' }],
