@@ -125,9 +125,7 @@ export class SyncClient {
       return;
     }
     this.clearTimer();
-    this.running = this.loop().finally(() => {
-      this.running = null;
-    });
+    this.running = this.loop();
   }
 
   /** "Sync now": run a cycle (or join the one running) and resolve with the state after it. */
@@ -152,10 +150,16 @@ export class SyncClient {
   }
 
   private async loop(): Promise<void> {
-    do {
-      this.again = false;
-      await this.cycle();
-    } while (this.again);
+    try {
+      do {
+        this.again = false;
+        await this.cycle();
+      } while (this.again);
+    } finally {
+      // Cleared before anyone is told, with no await in between: a trigger from a waiter's
+      // continuation then starts a fresh loop instead of setting `again` on one that has ended.
+      this.running = null;
+    }
     const waiters = this.waiters.splice(0);
     for (const w of waiters) w(this.state);
     this.scheduleNext();
@@ -184,7 +188,20 @@ export class SyncClient {
 
   private async cycle(): Promise<void> {
     const { campaignId } = this.opts;
-    const outcome = await this.lock(`arcfield-sync:${campaignId}`, async () => {
+    let outcome: 'ran' | 'busy';
+    try {
+      outcome = await this.lockedCycle(campaignId);
+    } catch (err) {
+      // The lock itself failed (e.g. Web Locks refused): nothing ran; say so and retry later.
+      this.failures += 1;
+      this.recordFailure(err);
+      outcome = 'busy';
+    }
+    if (outcome === 'busy') await this.publishCounts(); // another tab is syncing; just show fresh counts
+  }
+
+  private lockedCycle(campaignId: string): Promise<'ran' | 'busy'> {
+    return this.lock(`arcfield-sync:${campaignId}`, async () => {
       this.publish({ status: 'syncing', lastAttemptAt: new Date(this.now()).toISOString(), nextAttemptAt: null });
       try {
         await this.exchange();
@@ -199,7 +216,6 @@ export class SyncClient {
       }
       await this.publishCounts();
     });
-    if (outcome === 'busy') await this.publishCounts(); // another tab is syncing; just show fresh counts
   }
 
   private recordFailure(err: unknown): void {
