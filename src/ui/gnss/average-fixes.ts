@@ -7,7 +7,7 @@
 // local metric frame around the median position (north = Δφ·M(φ), east = Δλ·N(φ)·cos φ on WGS 84,
 // closed forms: M = a(1−e²)/(1−e² sin²φ)^{3/2}, N = a/(1−e² sin²φ)^{1/2}; over a few metres the
 // frame's error is far below a millimetre) with a robust radius OUTLIER_K × 1.4826 × median
-// distance, floored at MIN_OUTLIER_RADIUS_M.
+// distance, floored at OUTLIER_ACCURACY_FACTOR × the median device accuracy (and 1 m).
 //
 // The mean is weighted by 1/accuracy². The spread reported is the weighted RMS scatter of the kept
 // fixes about their mean — never accuracy/√n: successive fixes are strongly correlated, so the
@@ -46,6 +46,12 @@ export const DEFAULT_MIN_SPAN_S = 10;
 export const OUTLIER_K = 3;
 /** Floor of the outlier radius: below a metre the device scatter is not resolvable. */
 export const MIN_OUTLIER_RADIUS_M = 1;
+/**
+ * A fix within this many median device accuracies of the median position is never an outlier:
+ * when most fixes coincide the robust scale is 0, and a fix inside the phone's own error estimate
+ * must not be thrown out for that. Device accuracies are 68 % radii on some platforms, 95 % on others.
+ */
+export const OUTLIER_ACCURACY_FACTOR = 2;
 const MAD_TO_SIGMA = 1.4826;
 /** Reference figure for the local metric frame (WGS 84, the GNSS datum). */
 const FRAME = ellipsoidById('wgs84');
@@ -127,7 +133,8 @@ export function averageFixes(fixes: readonly RawFix[], opts: AverageOptions): Gn
     const lon0 = median(gated.map((v) => v.fix.longitudeDeg));
     const k = metresPerDegree(lat0);
     for (const v of gated) v.distanceM = Math.hypot((v.fix.latitudeDeg - lat0) * k.north, (v.fix.longitudeDeg - lon0) * k.east);
-    const radius = Math.max(OUTLIER_K * MAD_TO_SIGMA * median(gated.map((v) => v.distanceM ?? 0)), MIN_OUTLIER_RADIUS_M);
+    const floor = Math.max(MIN_OUTLIER_RADIUS_M, OUTLIER_ACCURACY_FACTOR * median(gated.map((v) => v.fix.accuracyM)));
+    const radius = Math.max(OUTLIER_K * MAD_TO_SIGMA * median(gated.map((v) => v.distanceM ?? 0)), floor);
     for (const v of gated) if ((v.distanceM ?? 0) > radius) { v.accepted = false; v.reason = 'outlier'; }
   }
 
