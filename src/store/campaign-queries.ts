@@ -86,6 +86,12 @@ export async function readingPage(db: ArcfieldDb, campaignId: string, kind: Read
   return { rows, offset, total };
 }
 
+/** Live readings of one kind in a campaign (an index count, no rows loaded). */
+export async function countReadings(db: ArcfieldDb, campaignId: string, kind: ReadingKind): Promise<number> {
+  const table = kind === 'latitude' ? db.latitudeReadings : db.arcReadings;
+  return table.where('[campaignId+deleted+id]').between(...live(campaignId)).count();
+}
+
 export async function exclusionsOf(db: ArcfieldDb, campaignId: string): Promise<ExclusionRow[]> {
   return db.exclusions.where('[campaignId+deleted+id]').between(...live(campaignId)).toArray();
 }

@@ -13,7 +13,7 @@ export {
 } from './field-store.ts';
 export {
   listCampaigns, getCampaign, stationsOf, stationByCode, latitudeReadingsOfStation, arcReadingsOfStation,
-  readingPage, exclusionsOf, loadCampaignRecords, type CampaignOverview, type ReadingPage, type ReadingKind,
+  readingPage, countReadings, exclusionsOf, loadCampaignRecords, type CampaignOverview, type ReadingPage, type ReadingKind,
 } from './campaign-queries.ts';
 export { importCampaignFile, type ImportSummary } from './import-campaign.ts';
 export { StorageError, classifyStorageError, errorNameChain, type StorageErrorKind } from './storage-error.ts';
