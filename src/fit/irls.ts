@@ -93,7 +93,7 @@ export function startScale(problem: LinearProblem, beta: Float64Array): number {
 
 /** Runs IRLS from `start` at the fixed scale `start.scale` (> 0, finite) on a validated problem with n ≥ p. */
 export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, options: FitOptions): FitResult {
-  const { n, p, X, y, weights } = problem;
+  const { n, p, y, weights } = problem;
   const tol = options.tolerance ?? IRLS_TOLERANCE;
   const maxIterations = options.maxIterations ?? IRLS_MAX_ITERATIONS;
   if (!(tol > 0) || !Number.isFinite(tol)) throw new InputError('options.tolerance', options.tolerance, 'must be finite and > 0');
@@ -130,12 +130,9 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   while (stop.iterations < maxIterations) {
     let objective = 0;
     let sameSides = true;
+    residualsOf(problem, beta, r);
     for (let i = 0; i < n; i++) {
-      let f = 0;
-      for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
-      const ri = y[i] - f;
-      r[i] = ri;
-      const u = (sw[i] * ri) / s;
+      const u = (sw[i] * r[i]) / s;
       const wi = sw[i] * sw[i];
       objective += rho.rho(u);
       v[i] = wi * rho.weight(u);
@@ -162,19 +159,18 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       continue;
     }
     objectiveBefore = objective;
-    accumulateNormal(ws, problem, r, v);
     let used = ws;
     lastWasNewton = false;
     if (newtonAllowed && lastChange < NEWTON_SWITCH) {
-      accumulateNormal(wsNewton, problem, r, h);
-      // Same right-hand side Σ√wψ(u)s·z for both steps; only the matrix differs.
-      wsNewton.rhs.set(ws.rhs);
+      // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
+      accumulateNormal(wsNewton, problem, r, h, v);
       if (factorNormal(wsNewton) >= IRLS_MIN_PIVOT) {
         used = wsNewton;
         lastWasNewton = true;
       }
     }
     if (!lastWasNewton) {
+      accumulateNormal(ws, problem, r, v);
       const ratio = factorNormal(ws);
       if (!(ratio >= IRLS_MIN_PIVOT)) {
         const out = noSolution(rho.estimator, problem, 'rank-deficient',

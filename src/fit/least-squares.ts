@@ -96,12 +96,13 @@ function solveNormal(problem: LinearProblem): Solution | null {
   const ws = createNormalWorkspace(problem, interceptColumn(problem));
   const beta = new Float64Array(p);
   const delta = new Float64Array(p);
-  const r = Float64Array.from(problem.y);
-  accumulateNormal(ws, problem, r, undefined);
+  // β = 0 to start: the first residual is y itself.
+  accumulateNormal(ws, problem, problem.y, undefined);
   const ratio = factorNormal(ws);
   if (!(ratio >= NORMAL_MIN_PIVOT)) return null;
   solveCorrection(ws, delta);
   for (let j = 0; j < p; j++) beta[j] += delta[j];
+  const r = new Float64Array(problem.n);
   for (let step = 0; step < REFINEMENT_STEPS; step++) {
     // The Gram matrix does not depend on β: keep its factor, only the right-hand side is new.
     accumulateResidualRhs(ws, problem, beta, r);

@@ -67,15 +67,18 @@ export function createNormalWorkspace(problem: LinearProblem, intercept: number)
 }
 
 /**
- * G = Σ vᵢ zᵢzᵢᵀ and b = Σ vᵢ zᵢ rᵢ with zᵢⱼ = (xᵢⱼ − sⱼ)·dⱼ; `rowWeights` vᵢ (the prior weights
- * when undefined). Upper triangle only.
+ * G = Σ vᵢ zᵢzᵢᵀ and b = Σ uᵢ zᵢ rᵢ with zᵢⱼ = (xᵢⱼ − sⱼ)·dⱼ; `rowWeights` vᵢ (the prior weights
+ * when undefined), `rhsWeights` uᵢ (vᵢ when undefined — a Newton step pairs ψ′ weights in G with
+ * the IRLS weights in b). Upper triangle only.
  */
-export function accumulateNormal(ws: NormalWorkspace, problem: LinearProblem, residuals: Float64Array, rowWeights: Float64Array | undefined): void {
+export function accumulateNormal(ws: NormalWorkspace, problem: LinearProblem, residuals: Float64Array, rowWeights: Float64Array | undefined,
+  rhsWeights?: Float64Array): void {
   const { p, shift, scale, gram, rhs, z } = ws;
   const { n, X, weights } = problem;
   gram.fill(0);
   rhs.fill(0);
   const v = rowWeights ?? weights;
+  const u = rhsWeights ?? v;
   if (p === 2) {
     // The degree model: unrolled, the bulk of every benchmark.
     const s0 = shift[0], s1 = shift[1], d0 = scale[0], d1 = scale[1];
@@ -84,21 +87,21 @@ export function accumulateNormal(ws: NormalWorkspace, problem: LinearProblem, re
       const vi = v ? v[i] : 1;
       const z0 = (X[2 * i] - s0) * d0;
       const z1 = (X[2 * i + 1] - s1) * d1;
-      const vz0 = vi * z0, vz1 = vi * z1, r = residuals[i];
+      const vz0 = vi * z0, vz1 = vi * z1, ur = (u ? u[i] : 1) * residuals[i];
       g00 += vz0 * z0; g01 += vz0 * z1; g11 += vz1 * z1;
-      b0 += vz0 * r; b1 += vz1 * r;
+      b0 += z0 * ur; b1 += z1 * ur;
     }
     gram[0] = g00; gram[1] = g01; gram[3] = g11; rhs[0] = b0; rhs[1] = b1;
     return;
   }
   for (let i = 0; i < n; i++) {
     const vi = v ? v[i] : 1;
-    if (vi === 0) continue;
-    const r = residuals[i];
+    const ur = (u ? u[i] : 1) * residuals[i];
+    if (vi === 0 && ur === 0) continue;
     for (let j = 0; j < p; j++) z[j] = (X[i * p + j] - shift[j]) * scale[j];
     for (let j = 0; j < p; j++) {
       const vz = vi * z[j];
-      rhs[j] += vz * r;
+      rhs[j] += z[j] * ur;
       for (let k = j; k < p; k++) gram[j * p + k] += vz * z[k];
     }
   }
@@ -112,6 +115,21 @@ export function accumulateResidualRhs(ws: NormalWorkspace, problem: LinearProble
   const { p, shift, scale, rhs } = ws;
   const { n, X, y, weights } = problem;
   rhs.fill(0);
+  if (p === 2) {
+    const c0 = beta[0], c1 = beta[1], s0 = shift[0], s1 = shift[1], d0 = scale[0], d1 = scale[1];
+    let b0 = 0, b1 = 0;
+    for (let i = 0; i < n; i++) {
+      const x0 = X[2 * i], x1 = X[2 * i + 1];
+      const r = y[i] - (x0 * c0 + x1 * c1);
+      residuals[i] = r;
+      const vr = (weights ? weights[i] : 1) * r;
+      b0 += vr * (x0 - s0);
+      b1 += vr * (x1 - s1);
+    }
+    rhs[0] = b0 * d0;
+    rhs[1] = b1 * d1;
+    return;
+  }
   for (let i = 0; i < n; i++) {
     let f = 0;
     for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
