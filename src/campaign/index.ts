@@ -9,7 +9,7 @@ export { reduceArcToEllipsoid, arcMeanHeight, type ArcHeightSource } from './red
 export { degreeRow, degreeRows, type ArcGeometry, type DegreeRow } from './degree-rows.ts';
 export { formatSigma } from './format-sigma.ts';
 export { prepareArcs, MIN_ARC_SPAN_DEG, type PreparedArc } from './prepare-arcs.ts';
-export { fitEllipsoidToArcs, F_SEARCH_MIN, F_SEARCH_MAX, F_TOLERANCE, F_GRID_STEP, type ArcForFit, type RigorousFitResult } from './rigorous-fit.ts';
+export { fitEllipsoidToArcs, F_SEARCH_MIN, F_SEARCH_MAX, F_TOLERANCE, F_GRID_STEP, type ArcForFit, type RigorousFitOptions, type RigorousFitResult } from './rigorous-fit.ts';
 export { fitDegreeModel, degreeProblem, DEGREE_COEFFICIENT_NAMES, type DegreeModelId } from './degree-model.ts';
 export { degreeModelError, type ModelErrorStatement } from './model-error.ts';
 export { degreeFigure, ellipsoidFigure } from './figure-uncertainty.ts';

@@ -31,7 +31,11 @@ export const F_SEARCH_MIN = -0.02;
 export const F_SEARCH_MAX = 0.05;
 /** Grid step over the bracket (141 points); the golden section starts from the best cell's neighbours. */
 export const F_GRID_STEP = 0.0005;
-/** Golden-section stop: bracket narrower than 1e-12 in f (≈ 1e-7 in 1/f near 298), far below any σ(1/f). */
+/**
+ * Golden-section stop: bracket narrower than 1e-12 in f (1e-7 in 1/f near 298). The profile
+ * objective itself is resolved only to ~1e-11 relative (arcs of 5e5 m against sigmas of metres),
+ * which leaves f uncertain by ~σ_f·3e-6 — a few 1e-6 in 1/f, still far below any campaign's σ(1/f).
+ */
 export const F_TOLERANCE = 1e-12;
 /** Cap: a 2·F_GRID_STEP bracket shrinks to F_TOLERANCE in log(1e9)/log(1.618) ≈ 44 steps; twice that. */
 export const F_MAX_ITERATIONS = 100;
@@ -53,6 +57,12 @@ export interface ArcForFit {
   distanceM: number;
   /** 1/σ² with σ in metres (propagated), or 1 (equal weighting). */
   weight: number;
+}
+
+export interface RigorousFitOptions {
+  /** The previous solution's f and its standard error: a local bracket to start from. */
+  warmStart?: { f: number; sigmaF: number };
+  tuning?: number;
 }
 
 export interface RigorousFitResult {
@@ -82,7 +92,7 @@ function columnAt(arcs: readonly ArcForFit[], f: number): Float64Array {
 }
 
 export function fitEllipsoidToArcs(
-  arcs: readonly ArcForFit[], estimator: Estimator, options: { warmStartF?: number; tuning?: number } = {},
+  arcs: readonly ArcForFit[], estimator: Estimator, options: RigorousFitOptions = {},
 ): RigorousFitResult {
   const n = arcs.length;
   const y = Float64Array.from(arcs, (a) => a.distanceM);
@@ -110,7 +120,18 @@ export function fitEllipsoidToArcs(
     const scale = s > 0 ? s : nonzero.length > 0 ? Math.min(...nonzero) : 1;
     fitOptions = { ...fitOptions, scale };
   }
-  const best = searchF((f) => profile(f, fitOptions, estimator), bracket);
+  // Warm start (least squares, L1, minimax): a local bracket around the previous f; if the optimum
+  // sits on its edge the data moved it further, and the full bracket is searched after all.
+  let best: Search | null = null;
+  const warm = options.warmStart;
+  if (warm && estimator !== 'huber' && estimator !== 'tukey' && Number.isFinite(warm.f) && warm.sigmaF > 0 && Math.abs(warm.f) < F_SEARCH_MAX) {
+    const half = Math.max(M_BRACKET_SIGMAS * warm.sigmaF, 1e3 * F_TOLERANCE);
+    const local = searchF((f) => profile(f, fitOptions, estimator),
+      { lo: Math.max(F_SEARCH_MIN, warm.f - half), hi: Math.min(F_SEARCH_MAX, warm.f + half), cells: M_BRACKET_CELLS });
+    iterations += local.iterations;
+    if (local.converged) best = { ...local, reason: `${local.reason}, warm-started at the previous f` };
+  }
+  best ??= searchF((f) => profile(f, fitOptions, estimator), bracket);
   iterations += best.iterations;
 
   const f = best.f;

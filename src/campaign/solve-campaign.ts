@@ -59,14 +59,14 @@ interface FitOutcome {
 
 const finiteOrNull = (v: number | null | undefined): number | null => (v !== null && v !== undefined && Number.isFinite(v) ? v : null);
 
-function runFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[]): FitOutcome {
+function runFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[], previous: CampaignResult | undefined): FitOutcome {
   const empty = { coefficients: [] as Coefficient[], figure: null, problem: null, fit: null, objective: 0, iterations: 0, converged: false } as const;
   const p = model === 'degree2' ? 3 : 2;
   const geo = inFit.map((a) => a.geometry).filter((g) => g !== null);
   if (model === 'ellipsoid') {
     const r = fitEllipsoidToArcs(inFit.map((a, i) => ({
       id: a.id, latitude1Deg: geo[i].latitude1Deg, latitude2Deg: geo[i].latitude2Deg, distanceM: geo[i].reducedDistanceM, weight: geo[i].weightM,
-    })), estimator);
+    })), estimator, { warmStart: warmStartF(previous, model, estimator) });
     if (r.status === 'too-few-rows' || r.status === 'rank-deficient') {
       return { ...empty, status: r.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', message: r.reason, residualOf: () => 0, weightOf: () => 1, reason: r.reason, p };
     }
@@ -92,7 +92,9 @@ function runFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[]): F
     };
   }
   const rows = geo.map((g) => g.row);
-  const { problem, fit } = fitDegreeModel(rows, model, estimator);
+  const warm = previous && previous.model === model && previous.estimator === estimator && previous.status === 'ok' &&
+    previous.coefficients.length === p ? Float64Array.from(previous.coefficients, (c) => c.value) : undefined;
+  const { problem, fit } = fitDegreeModel(rows, model, estimator, warm ? { warmStart: { coefficients: warm } } : {});
   if (fit.status === 'too-few-rows' || fit.status === 'rank-deficient') {
     return { ...empty, status: fit.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', message: fit.reason, residualOf: () => 0, weightOf: () => 1, reason: fit.reason, p };
   }
@@ -116,6 +118,14 @@ function runFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[]): F
     problem, fit,
     objective: fit.objective, iterations: fit.iterations, converged: fit.converged, reason: fit.reason, p,
   };
+}
+
+/** f and σ_f of a previous ellipsoid result with the same estimator, for the warm start. */
+function warmStartF(previous: CampaignResult | undefined, model: ModelId, estimator: EstimatorId): { f: number; sigmaF: number } | undefined {
+  const fig = previous?.figure;
+  if (!previous || !fig || previous.model !== model || previous.estimator !== estimator || previous.status !== 'ok') return undefined;
+  const sigmaF = fig.inverseFlatteningStd !== null ? fig.inverseFlatteningStd * fig.flattening * fig.flattening : Math.abs(fig.flattening) * 1e-2;
+  return { f: fig.flattening, sigmaF };
 }
 
 function stationSummaries(latitudes: readonly StationLatitude[], kind: LatitudeKind): StationSummary[] {
@@ -209,7 +219,7 @@ export function solveCampaign(records: CampaignRecords, options: SolveOptions = 
   }
   const outcome: FitOutcome = early
     ? { ...early, coefficients: [], figure: null, residualOf: () => 0, weightOf: () => 1, problem: null, fit: null, objective: 0, iterations: 0, converged: false, reason: early.message, p }
-    : runFit(model, estimator, inFit);
+    : runFit(model, estimator, inFit, options.previous);
   const fitted = outcome.figure !== null;
 
   // Arc residuals (excluded arcs too, against the fit they did not enter), flags and hints.
