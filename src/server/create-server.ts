@@ -67,6 +67,8 @@ export async function createServer(opts: ServerOptions): Promise<FastifyInstance
   const cors = new Set(opts.corsOrigins ?? DEFAULT_CORS_ORIGINS);
 
   app.setErrorHandler(errorHandler);
+  // JSON only: without Fastify's text/plain parser a text body gets 415 instead of a confusing 400.
+  app.removeContentTypeParser('text/plain');
   app.addHook('onRequest', async (req, reply) => {
     void reply.header('x-content-type-options', 'nosniff');
     const origin = req.headers.origin;
