@@ -74,6 +74,10 @@ function parseAngle(text: string, field: string): ParsedAngle {
     return { deg: gon[1] === '-' ? -value : value, hemisphere: undefined };
   }
 
+  // "1e5" would otherwise read as a misplaced E hemisphere letter.
+  if (/\d\s*e\s*[+-]?\d/i.test(body) && !/^[EW]|[EW]$/i.test(body)) {
+    throw new InputError(field, text, 'exponent notation is not an angle; write the digits out');
+  }
   const letters = body.match(/[a-z]/gi) ?? [];
   const hemispheres = letters.filter((l) => /[NSEW]/i.test(l));
   if (letters.length > hemispheres.length) {

@@ -41,7 +41,7 @@ export function figureByArcs(coef: DegreeCoefficients, arcs: readonly DegreeArc[
   });
   const xs = rows.map((r) => r.x);
   const perUnitA = (f: number): number[] => fitPolynomialInX(xs,
-    rows.map((r) => (meridianDistancePerUnitA(f, r.to) - meridianDistancePerUnitA(f, r.from)) / (r.to - r.from)), terms, weights);
+    rows.map((r) => (meridianDistancePerUnitA(f, r.to) - meridianDistancePerUnitA(f, r.from)) / (r.to - r.from)), terms, weights, 'arcs');
   const target = coef.m / coef.c;
   const residual = (f: number): number => {
     const beta = perUnitA(f);

@@ -32,7 +32,8 @@ function sqrtWeights(count: number, weights: readonly number[] | undefined): num
 }
 
 /** Coefficients β (length `size`) minimising Σ wᵢ (yᵢ − Σ_j β_j xᵢ^j)². */
-export function fitPolynomialInX(xs: readonly number[], ys: readonly number[], size: number, weights?: readonly number[]): number[] {
+export function fitPolynomialInX(xs: readonly number[], ys: readonly number[], size: number, weights?: readonly number[],
+  field = 'latitudesDeg'): number[] {
   const rows = xs.length;
   if (ys.length !== rows) throw new InputError('ys', ys.length, `there must be one value per abscissa (${rows})`);
   const sw = sqrtWeights(rows, weights);
@@ -46,7 +47,7 @@ export function fitPolynomialInX(xs: readonly number[], ys: readonly number[], s
     let norm = 0;
     for (let i = j; i < rows; i++) norm = Math.hypot(norm, col[i]);
     if (rows <= j || norm <= RANK_TOLERANCE * originalNorms[j]) {
-      throw new InputError('latitudesDeg', rows,
+      throw new InputError(field, rows,
         `the fitted latitudes must include at least ${size} distinct values of sin²φ to separate the ${size} model terms`);
     }
     const alpha = col[j] > 0 ? -norm : norm;
