@@ -33,7 +33,8 @@ export const DEMO_BLUNDERS = {
   arcReadingIds: ['a-K06-K07'],
 } as const;
 
-interface DemoStation {
+/** A scenario station: inputs of the generator (invented), exported for the tests. */
+export interface DemoStation {
   code: string;
   /** Geodetic latitude: degrees, minutes, seconds north. */
   dms: [number, number, number];
@@ -45,7 +46,7 @@ interface DemoStation {
   gnss: boolean;
 }
 
-const STATIONS: readonly DemoStation[] = [
+export const DEMO_STATIONS: readonly DemoStation[] = [
   { code: 'K01', dms: [8, 7, 12.4], heightM: 152, deflectionArcsec: 0.04, repeats: 10, sigmaArcsec: 0.2, gnss: true },
   { code: 'K02', dms: [12, 51, 3.9], heightM: 318, deflectionArcsec: -0.03, repeats: 11, sigmaArcsec: 0.2, gnss: false },
   { code: 'K03', dms: [17, 27, 40.2], heightM: 611, deflectionArcsec: 0.05, repeats: 12, sigmaArcsec: 0.2, gnss: false },
@@ -62,12 +63,13 @@ const STATIONS: readonly DemoStation[] = [
 
 /** Sigma of the GNSS geodetic readings: 0.002″ ≈ 6 cm on the ground. */
 const GNSS_SIGMA_ARCSEC = 0.002;
+/** The demo's arc blunders in metres (scenario constants). */
+export const DEMO_ARC_BLUNDERS_M: Readonly<Record<string, number>> = { 'a-K06-K07': 25 };
 /** Arc distance sigma: 1 part in 500 000 of the distance (triangulation-grade chain), rounded to cm. */
 const ARC_RELATIVE_SIGMA = 2e-6;
 const DEMO_LONGITUDE_DEG = 21.5;
 
 const BLUNDER_LATITUDE_ARCSEC: Record<string, number> = { 'r-K04-3': 3.0, 'r-K09-5': -2.6 };
-const BLUNDER_ARC_M: Record<string, number> = { 'a-K06-K07': 25 };
 /** The crew's own exclusion: a normal reading, left out for cloud. */
 const EXCLUDED_READING = 'r-K02-6';
 
@@ -83,12 +85,12 @@ function instant(dayOffset: number, minuteOfNight: number): string {
 export function demoCampaign(seed = DEMO_SEED): CampaignFile {
   const rng = seededRandom(seed);
   const ellipsoid = ellipsoidById(DEMO_ELLIPSOID_ID);
-  const stations: Station[] = STATIONS.map((s) => ({
+  const stations: Station[] = DEMO_STATIONS.map((s) => ({
     code: s.code, heightM: s.heightM, longitudeDeg: DEMO_LONGITUDE_DEG,
     name: `Demo station ${s.code} (invented)`,
   }));
   const latitudeReadings: LatitudeReading[] = [];
-  STATIONS.forEach((s, si) => {
+  DEMO_STATIONS.forEach((s, si) => {
     const geodeticDeg = toDeg(s.dms);
     for (let k = 1; k <= s.repeats; k++) {
       const id = `r-${s.code}-${k}`;
@@ -114,9 +116,9 @@ export function demoCampaign(seed = DEMO_SEED): CampaignFile {
     }
   });
   const arcReadings: ArcReading[] = [];
-  for (let i = 0; i + 1 < STATIONS.length; i++) {
-    const from = STATIONS[i];
-    const to = STATIONS[i + 1];
+  for (let i = 0; i + 1 < DEMO_STATIONS.length; i++) {
+    const from = DEMO_STATIONS[i];
+    const to = DEMO_STATIONS[i + 1];
     const id = `a-${from.code}-${to.code}`;
     const phi1 = toDeg(from.dms);
     const phi2 = toDeg(to.dms);
@@ -129,7 +131,7 @@ export function demoCampaign(seed = DEMO_SEED): CampaignFile {
     const sigmaM = round(ARC_RELATIVE_SIGMA * atHeight, 2);
     arcReadings.push({
       id, fromStation: from.code, toStation: to.code,
-      distanceM: round(atHeight + sigmaM * rng.normal() + (BLUNDER_ARC_M[id] ?? 0), 3),
+      distanceM: round(atHeight + sigmaM * rng.normal() + (DEMO_ARC_BLUNDERS_M[id] ?? 0), 3),
       sigmaM,
       ...(ownHeight !== undefined ? { meanHeightM: ownHeight } : {}),
       observedAt: instant(i * 6 + 5, 0),

@@ -15,5 +15,5 @@ export { degreeModelError, type ModelErrorStatement } from './model-error.ts';
 export { degreeFigure, ellipsoidFigure } from './figure-uncertainty.ts';
 export { flagResiduals, type ResidualFlags } from './residual-flags.ts';
 export { solveCampaign, DEFAULT_SUSPECT_THRESHOLD, DEFAULT_REFERENCE_ELLIPSOID, CHI_SQUARE_ALPHA } from './solve-campaign.ts';
-export { demoCampaign, DEMO_BLUNDERS, DEMO_SEED, DEMO_ELLIPSOID_ID } from './demo.ts';
+export { demoCampaign, DEMO_BLUNDERS, DEMO_ARC_BLUNDERS_M, DEMO_SEED, DEMO_ELLIPSOID_ID, DEMO_STATIONS, type DemoStation } from './demo.ts';
 export { seededRandom, type SeededRandom } from './seeded-random.ts';

@@ -3,7 +3,7 @@
 // planted blunders. WGS 84 constants from check-values.md (NIMA TR8350.2 — from memory).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { DEMO_BLUNDERS, demoCampaign, solveCampaign, validateCampaign } from '../../src/campaign/index.ts';
+import { DEMO_ARC_BLUNDERS_M, DEMO_BLUNDERS, DEMO_STATIONS, demoCampaign, solveCampaign, validateCampaign } from '../../src/campaign/index.ts';
 import { campaignFileText } from '../../src/io/campaign-file.ts';
 import { geographicLibArcM } from './helpers/exact-campaign.ts';
 import { within } from '../helpers/within.ts';
@@ -32,21 +32,26 @@ describe('demo campaign', () => {
     expect(committed).toBe(campaignFileText(validateCampaign(file)));
   });
 
-  it('arcs agree with GeographicLib on WGS 84 to within their noise (5σ), after the height reduction', () => {
-    const geodetic = new Map(file.latitudeReadings.filter((r) => r.kind === 'geodetic').map((r) => [r.station, r.latitudeDeg]));
-    expect(geodetic.size).toBe(4);
-    // Consecutive stations whose both ends have a GNSS latitude are few; check every arc against
-    // GeographicLib using the scenario's geodetic latitudes recovered from the GNSS readings where
-    // present, else the robust astronomic station mean (within a few tenths of an arcsecond).
-    const r = solveCampaign(file);
-    const lat = new Map(r.stations.map((s) => [s.code, s.latitudeDeg]));
+  it('arcs are GeographicLib WGS 84 meridian arcs between the scenario latitudes, carried to height, within 5σ of noise', () => {
+    // Independent of src/geodesy: the arc from GeographicLib's inverse problem, the meridian radius
+    // M as its numerical derivative (central difference over ±0.01°, error ~M″δ²/6 ≈ 1e-4 relative
+    // of a 100 m correction), the height term s·h/M.
+    const dms = (d: readonly [number, number, number]): number => d[0] + d[1] / 60 + d[2] / 3600;
+    const station = new Map(DEMO_STATIONS.map((s) => [s.code, s]));
+    const meanHeight = new Map(file.stations.map((s) => [s.code, s.heightM ?? 0]));
     for (const arc of file.arcReadings) {
-      const l1 = geodetic.get(arc.fromStation) ?? lat.get(arc.fromStation) ?? 0;
-      const l2 = geodetic.get(arc.toStation) ?? lat.get(arc.toStation) ?? 0;
-      const glib = geographicLibArcM(A, 1 / INVF, l1, l2);
-      const blunder = (DEMO_BLUNDERS.arcReadingIds as readonly string[]).includes(arc.id) ? 25 : 0;
-      // 0.5″ of latitude ≈ 15 m on each end dominates; the height reduction is < 200 m.
-      expect(Math.abs(arc.distanceM - blunder - glib)).toBeLessThan(250);
+      const from = station.get(arc.fromStation);
+      const to = station.get(arc.toStation);
+      if (!from || !to) throw new Error(`unknown station in ${arc.id}`);
+      const l1 = dms(from.dms);
+      const l2 = dms(to.dms);
+      const s0 = geographicLibArcM(A, 1 / INVF, l1, l2);
+      const mid = (l1 + l2) / 2;
+      const d = 0.01;
+      const M = geographicLibArcM(A, 1 / INVF, mid - d, mid + d) / ((2 * d * Math.PI) / 180);
+      const h = arc.meanHeightM ?? ((meanHeight.get(arc.fromStation) ?? 0) + (meanHeight.get(arc.toStation) ?? 0)) / 2;
+      const expected = s0 * (M + h) / M + (DEMO_ARC_BLUNDERS_M[arc.id] ?? 0);
+      within(arc.distanceM, expected, 5 * arc.sigmaM, 'm', `${arc.id} against GeographicLib`, { source: 'GeographicLib 2.2 (geographiclib-geodesic), WGS 84' });
     }
   });
 
