@@ -1,0 +1,5 @@
+// Campaign decisions in the app: the printable report and CSV import with column mapping.
+export { ReportAction, type ReportActionProps } from './report-action.tsx';
+export { CsvImportPanel, type CsvImportPanelProps } from './csv-import-panel.tsx';
+export { campaignFileOf } from './campaign-file-of.ts';
+export type { ReportRequest, ReportReply } from './report-protocol.ts';
