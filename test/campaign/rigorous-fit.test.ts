@@ -27,6 +27,16 @@ describe('rigorous ellipsoid fit', () => {
     });
   }
 
+  it('southern latitudes and an arc across the equator: same figure (G is odd, arcs are lengths)', () => {
+    const lats = [-40, -31, -22, -13, -4, 5, 14, 23];
+    const r = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: lats }));
+    expect(r.status).toBe('ok');
+    within(r.figure?.semiMajorAxisM ?? 0, WGS84.a, 1e-3, 'm', 'a', { source: GLIB });
+    within(r.figure?.inverseFlattening ?? 0, WGS84.invf, 1e-5, '', '1/f', { source: GLIB });
+    const degree = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: lats }), { model: 'degree2', weighting: 'equal' });
+    within(degree.figure?.inverseFlattening ?? 0, WGS84.invf, 1e-3, '', 'degree2 1/f', { source: GLIB });
+  });
+
   it('WGS 84 quadrant recovered is the published 10 001 965.729 m', () => {
     // Meridian quadrant 10 001 965.7293 m (NIMA TR8350.2 derived constants — from memory).
     const r = solveCampaign(exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS }));
