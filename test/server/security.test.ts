@@ -173,7 +173,7 @@ function suite(name: string, open: () => Promise<{ storage: SyncStorage; cleanup
       const ok = await push(tok.observer, { protocolVersion: 1, deviceId: 'dev-obs', changes: [station] });
       expect(PushResponseSchema.parse(ok.json()).results[0]).toMatchObject({ status: 'acked' });
       const pulled = await app.inject({ method: 'GET', url: '/api/campaigns/cmp-a/pull', headers: bearer(tok.viewer) });
-      expect((pulled.json() as { changes: { record: { notes: string } }[] }).changes[0].record.notes).toBe(note);
+      expect(pulled.json<{ changes: { record: { notes: string } }[] }>().changes[0].record.notes).toBe(note);
       expect(await storage.countChanges('cmp-a')).toBe(1);
       expect((await storage.listRecords('cmp-a')).length).toBe(1);
     });
@@ -229,8 +229,11 @@ describe('HTTP hygiene (SQLite)', () => {
 
   it('an internal failure answers 500 with a request id and no stack trace', async () => {
     const c = await createCampaign(storage, 'Invented arc S', { campaignId: 'cmp-s', now: new Date(T0) });
-    const failing: SyncStorage = Object.create(storage) as SyncStorage;
-    failing.pull = () => Promise.reject(new Error('disk on fire at /var/lib/secret/path'));
+    const failing = new Proxy(storage, {
+      get: (target, key, receiver): unknown => (key === 'pull'
+        ? () => Promise.reject(new Error('disk on fire at /var/lib/secret/path'))
+        : Reflect.get(target, key, receiver)),
+    });
     const app = await createServer({ storage: failing, now: () => T0 });
     try {
       const r = await app.inject({ method: 'GET', url: '/api/campaigns/cmp-s/pull', headers: bearer(c.leadToken) });
