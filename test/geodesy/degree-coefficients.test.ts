@@ -1,6 +1,7 @@
 // Degree-length coefficients ↔ figure, on exact one-degree WGS 84 and International 1924 arcs
 // at 5…65° from GeographicLib (scripts/gen-geodesy-fixtures.ts), fitted with ml-matrix. The
 // expected figures are the defining constants; the expected biases are those of check-values.md.
+import geodesic from 'geographiclib-geodesic';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.ts';
 import {
@@ -97,6 +98,29 @@ describe('fitted (c, m, k) on exact arcs', () => {
     expect(fig.order).toBe(2);
     within(fig.inverseFlattening, W.inverseFlattening, 1e-9, '', '1/f', { source: W.source, relative: true });
     expect(fig.inversion).toMatch(/read as Taylor coefficients/);
+  });
+});
+
+describe('long arcs: the s/Δφ reduction bias (invented 5° arcs from 8° to 62°)', () => {
+  // Eleven consecutive arcs of ~4.9°, exact WGS 84 lengths from GeographicLib's solver (called here).
+  const latitudes = Array.from({ length: 12 }, (_, i) => 8 + (54 * i) / 11);
+  const geod = new geodesic.Geodesic.Geodesic(W.semiMajorAxisM, W.flattening);
+  const rows = latitudes.slice(1).map((to, i) => ({
+    fromLatitudeDeg: latitudes[i], toLatitudeDeg: to, arcM: geod.Inverse(latitudes[i], 0, to, 0).s12 ?? NaN,
+  }));
+  it('order 2 on mid latitudes is biased by about +0.3 in 1/f (mean ≠ mid-latitude degree length)', () => {
+    // Measured +0.35 (c, m) and +0.29 (c, m, k); M″Δφ²/24 scaling from +0.015 at 1° arcs gives ≈ +0.37 at 4.9°.
+    for (const terms of [2, 3] as const) {
+      const fig = figureFromDegreeCoefficients(fitDegreeModel(rows, terms), { latitudesDeg: midLatitudes(rows) });
+      within(fig.inverseFlattening - W.inverseFlattening, 0.32, 0.08, '', `order-2 bias, ${terms} terms`, { source: 'GeographicLib 2.2 arcs' });
+    }
+  });
+  it('the inversion by arcs has no such bias', () => {
+    for (const terms of [2, 3] as const) {
+      const fig = figureFromDegreeCoefficients(fitDegreeModel(rows, terms), { arcs: rows });
+      within(fig.inverseFlattening, W.inverseFlattening, 1e-6, '', `by-arcs 1/f, ${terms} terms`, { source: 'GeographicLib 2.2 arcs' });
+      within(fig.semiMajorAxisM, W.semiMajorAxisM, 1e-4, 'm', `by-arcs a, ${terms} terms`, { source: 'GeographicLib 2.2 arcs' });
+    }
   });
 });
 
