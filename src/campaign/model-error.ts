@@ -33,7 +33,7 @@ export function degreeModelError(
   return {
     maxMetresPerDegree: max,
     statement: `${form}; on this campaign's latitudes, exact ${ellipsoidLabel} arcs miss the model by up to ${max.toFixed(3)} m/degree ` +
-      `(model error, independent of the readings). The figure is read from the coefficients by the second-order inversion; ` +
-      `the ellipsoid model has no such error.`,
+      `(model error, independent of the readings). The residuals carry it; the figure is read by the inversion by arcs ` +
+      `(figure.inversion), which takes it into account. The ellipsoid model has no such error.`,
   };
 }
