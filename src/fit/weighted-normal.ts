@@ -94,6 +94,23 @@ export function accumulateNormal(ws: NormalWorkspace, problem: LinearProblem, re
     gram[0] = g00; gram[1] = g01; gram[3] = g11; rhs[0] = b0; rhs[1] = b1;
     return;
   }
+  if (p === 3) {
+    // The degree model with the k·x² term, unrolled likewise.
+    const s0 = shift[0], s1 = shift[1], s2 = shift[2], d0 = scale[0], d1 = scale[1], d2 = scale[2];
+    let g00 = 0, g01 = 0, g02 = 0, g11 = 0, g12 = 0, g22 = 0, b0 = 0, b1 = 0, b2 = 0;
+    for (let i = 0; i < n; i++) {
+      const vi = v ? v[i] : 1;
+      const z0 = (X[3 * i] - s0) * d0;
+      const z1 = (X[3 * i + 1] - s1) * d1;
+      const z2 = (X[3 * i + 2] - s2) * d2;
+      const vz0 = vi * z0, vz1 = vi * z1, vz2 = vi * z2, ur = (u ? u[i] : 1) * residuals[i];
+      g00 += vz0 * z0; g01 += vz0 * z1; g02 += vz0 * z2; g11 += vz1 * z1; g12 += vz1 * z2; g22 += vz2 * z2;
+      b0 += z0 * ur; b1 += z1 * ur; b2 += z2 * ur;
+    }
+    gram[0] = g00; gram[1] = g01; gram[2] = g02; gram[4] = g11; gram[5] = g12; gram[8] = g22;
+    rhs[0] = b0; rhs[1] = b1; rhs[2] = b2;
+    return;
+  }
   for (let i = 0; i < n; i++) {
     const vi = v ? v[i] : 1;
     const ur = (u ? u[i] : 1) * residuals[i];
@@ -128,6 +145,23 @@ export function accumulateResidualRhs(ws: NormalWorkspace, problem: LinearProble
     }
     rhs[0] = b0 * d0;
     rhs[1] = b1 * d1;
+    return;
+  }
+  if (p === 3) {
+    const c0 = beta[0], c1 = beta[1], c2 = beta[2], s0 = shift[0], s1 = shift[1], s2 = shift[2];
+    let b0 = 0, b1 = 0, b2 = 0;
+    for (let i = 0; i < n; i++) {
+      const x0 = X[3 * i], x1 = X[3 * i + 1], x2 = X[3 * i + 2];
+      const r = y[i] - (x0 * c0 + x1 * c1 + x2 * c2);
+      residuals[i] = r;
+      const vr = (weights ? weights[i] : 1) * r;
+      b0 += vr * (x0 - s0);
+      b1 += vr * (x1 - s1);
+      b2 += vr * (x2 - s2);
+    }
+    rhs[0] = b0 * scale[0];
+    rhs[1] = b1 * scale[1];
+    rhs[2] = b2 * scale[2];
     return;
   }
   for (let i = 0; i < n; i++) {
