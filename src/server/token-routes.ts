@@ -33,7 +33,8 @@ export function registerTokenRoutes(app: FastifyInstance, ctx: ServerContext): v
       throw err;
     }
     void reply.code(201).header('cache-control', 'no-store');
-    return { ...infoOf(made.row), token: made.token };
+    const r = made.row;
+    return { tokenId: r.id, token: made.token, role: r.role, label: r.label, deviceId: r.deviceId, campaignId: r.campaignId };
   });
 
   app.get('/api/campaigns/:campaignId/tokens', async (req) => {
