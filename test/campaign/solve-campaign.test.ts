@@ -85,6 +85,19 @@ describe('solveCampaign statuses', () => {
     expect(r.stations.find((s) => s.code === 'K04')?.usedInFit).toBe(false);
   });
 
+  it('the latitude kind that feeds the arcs: astronomic by default, geodetic on request', () => {
+    const rec = wgs([5, 15, 25, 35, 45]);
+    const geodeticOnly: CampaignRecords = { ...rec, latitudeReadings: rec.latitudeReadings.map((r) => ({ ...r, kind: 'geodetic' as const })) };
+    const byDefault = solveCampaign(geodeticOnly);
+    expect(byDefault.status).toBe('too-few-arcs');
+    expect(byDefault.stations.every((s) => s.usedInFit === false && s.kind === 'geodetic')).toBe(true);
+    const chosen = solveCampaign(geodeticOnly, { latitudeKind: 'geodetic' });
+    expect(chosen.status).toBe('ok');
+    within(chosen.figure?.inverseFlattening ?? 0, INVF, 1e-4, '', '1/f from geodetic latitudes', { source: GLIB });
+    const viaSettings = solveCampaign({ ...geodeticOnly, settings: { latitudeKind: 'geodetic' } });
+    expect(viaSettings.status).toBe('ok');
+  });
+
   it('as many arcs as parameters: an exact fit, said so, no uncertainty', () => {
     const r = solveCampaign(wgs([10, 30, 50]));
     expect(r.status).toBe('ok');
