@@ -6,7 +6,11 @@
 import { escapeHtml } from './html-escape.ts';
 import { axes, band, niceTicks, paddedRange, PALETTE, points, polyline, svg, sx, sy, type Frame, type Point } from './report-svg.ts';
 
-export interface DegreePoint { label: string; x: number; y: number; sigmaY: number; suspect: boolean; excluded: boolean }
+export interface DegreePoint {
+  label: string; x: number; y: number; sigmaY: number; suspect: boolean; excluded: boolean;
+  /** The fitted figure's mean degree length over the same arc, a·|g(φ₂) − g(φ₁)|/|Δφ|, and its 95 % half-width (null without a fit). */
+  fittedY: number | null; fittedHalfWidth95: number | null;
+}
 export interface CurvePoint { x: number; y: number; lower: number; upper: number }
 export interface ArcResidual { label: string; z: number; suspect: boolean; excluded: boolean }
 export interface StationRepeats { code: string; readings: { id: string; residualArcsec: number; suspect: boolean; excluded: boolean }[] }
@@ -23,16 +27,35 @@ export function degreeLengthChart(data: readonly DegreePoint[], curve: readonly 
   const [yMin, yMax] = paddedRange(ys);
   const xs = [...data.map((d) => d.x), ...curve.map((c) => c.x)];
   const [xMin, xMax] = paddedRange(xs, 0.03);
-  const f: Frame = { width: 640, height: 300, left: 64, right: 14, top: 12, bottom: 38, xMin, xMax, yMin, yMax };
-  const body = [
-    axes(f, 'sin²φ (mid latitude of each arc)', 'degree length (m per degree)'),
-    curve.length > 1 ? band(f, curve.map((c) => [c.x, c.upper]), curve.map((c) => [c.x, c.lower]), PALETTE.band) : '',
-    curve.length > 1 ? polyline(f, curve.map((c) => [c.x, c.y]), PALETTE.fit) : '',
-    points(f, data.map((d): Point => ({ x: d.x, y: d.y, sigma: d.sigmaY, colour: colourOf(d.suspect, d.excluded), hollow: d.excluded, title: `${d.label}: ${d.y.toFixed(2)} ± ${d.sigmaY.toFixed(2)} m/degree` }))),
-    legend([['arc (±1σ)', PALETTE.point, false], ['suspect', PALETTE.suspect, false], ['excluded', PALETTE.excluded, true]], f.left + 10, f.top + 12),
-    `<text x="${f.width - f.right - 6}" y="${f.height - f.bottom - 8}" text-anchor="end" font-size="10" fill="${PALETTE.fit}">${escapeHtml(curveLabel)}</text>`,
+  const top: Frame = { width: 640, height: 250, left: 64, right: 14, top: 12, bottom: 38, xMin, xMax, yMin, yMax };
+  const colour = (d: DegreePoint): string => colourOf(d.suspect, d.excluded);
+  const upper = [
+    axes(top, 'sin²φ (mid latitude of each arc)', 'degree length (m per degree)'),
+    curve.length > 1 ? band(top, curve.map((c) => [c.x, c.upper]), curve.map((c) => [c.x, c.lower]), PALETTE.band) : '',
+    curve.length > 1 ? polyline(top, curve.map((c) => [c.x, c.y]), PALETTE.fit) : '',
+    points(top, data.map((d): Point => ({ x: d.x, y: d.y, sigma: d.sigmaY, colour: colour(d), hollow: d.excluded, title: `${d.label}: ${d.y.toFixed(2)} ± ${d.sigmaY.toFixed(2)} m/degree` }))),
+    legend([['arc (±1σ)', PALETTE.point, false], ['suspect', PALETTE.suspect, false], ['excluded', PALETTE.excluded, true]], top.left + 10, top.top + 12),
+    `<text x="${top.width - top.right - 6}" y="${top.height - top.bottom - 8}" text-anchor="end" font-size="10" fill="${PALETTE.fit}">${escapeHtml(curveLabel)}</text>`,
   ].join('');
-  return svg(f, 'Degree length against sin²φ with the fitted figure and its 95 % band', body);
+  // Lower panel: the same arcs as departures from the fitted figure's mean degree length over each
+  // arc, where the ±1σ bars and the 95 % band are visible (in the upper panel they are thinner than a line).
+  const fitted = data.filter((d) => d.fittedY !== null);
+  let lower = '';
+  if (fitted.length > 0) {
+    const dev = fitted.map((d) => d.y - (d.fittedY ?? 0));
+    const hw = fitted.map((d) => d.fittedHalfWidth95 ?? 0);
+    const [dMin, dMax] = paddedRange([...dev.map((v, i) => v - fitted[i].sigmaY), ...dev.map((v, i) => v + fitted[i].sigmaY), ...hw, ...hw.map((v) => -v)]);
+    const low: Frame = { width: 640, height: 200, left: 64, right: 14, top: 8, bottom: 38, xMin, xMax, yMin: dMin, yMax: dMax };
+    const sorted = fitted.map((d, i) => ({ x: d.x, h: hw[i] })).sort((p, q) => p.x - q.x);
+    lower = `<g transform="translate(0 ${top.height})">${[
+      axes(low, 'sin²φ', 'observed − fitted (m per degree)'),
+      sorted.length > 1 ? band(low, sorted.map((p) => [p.x, p.h]), sorted.map((p) => [p.x, -p.h]), PALETTE.band) : '',
+      polyline(low, [[xMin, 0], [xMax, 0]], PALETTE.fit, 1),
+      points(low, fitted.map((d, i): Point => ({ x: d.x, y: dev[i], sigma: d.sigmaY, colour: colour(d), hollow: d.excluded, title: `${d.label}: ${dev[i].toFixed(2)} ± ${d.sigmaY.toFixed(2)} m/degree from the fit` }))),
+    ].join('')}</g>`;
+  }
+  const frame: Frame = { ...top, height: top.height + (lower ? 200 : 0) };
+  return svg(frame, 'Degree length against sin²φ with the fitted figure and its 95 % band', upper + lower);
 }
 
 export function arcResidualChart(data: readonly ArcResidual[], threshold: number): string {

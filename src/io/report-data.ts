@@ -4,7 +4,7 @@
 // covariance, the comparison against the reference ellipsoids, reliability, station sufficiency,
 // the planner, and the data behind the charts. Pure (the time stamp is passed in), so the app's
 // worker and the CLI produce the same report; a progress callback reports each stage.
-import { ellipsoidById, meridianRadiusPerUnitA } from '../geodesy/index.ts';
+import { ellipsoidById, meridianDistancePerUnitA, meridianRadiusPerUnitA } from '../geodesy/index.ts';
 import { ESTIMATOR_IDS, type CampaignFile, type EstimatorId } from '../campaign/records.ts';
 import type { CampaignResult } from '../campaign/result.ts';
 import { solveCampaign } from '../campaign/solve-campaign.ts';
@@ -108,7 +108,11 @@ export function buildReportData(file: CampaignFile, options: ReportOptions): Rep
   const degreePoints: DegreePoint[] = prepared.map((a) => {
     const row = a.geometry?.row;
     const rr = readingById.get(a.id);
-    return { label: `${a.fromStation}–${a.toStation}`, x: row?.x ?? 0, y: row?.y ?? 0, sigmaY: row?.sigmaY ?? 0, suspect: rr?.suspect ?? false, excluded: a.excluded };
+    const fitted = a.geometry ? fittedDegreeLength(correlated, a.geometry.latitude1Deg, a.geometry.latitude2Deg) : null;
+    return {
+      label: `${a.fromStation}–${a.toStation}`, x: row?.x ?? 0, y: row?.y ?? 0, sigmaY: row?.sigmaY ?? 0, suspect: rr?.suspect ?? false, excluded: a.excluded,
+      fittedY: fitted?.y ?? null, fittedHalfWidth95: fitted ? Z95 * fitted.sd : null,
+    };
   });
   const arcResiduals: ArcResidual[] = prepared.map((a) => {
     const rr = readingById.get(a.id);
@@ -130,6 +134,24 @@ export function buildReportData(file: CampaignFile, options: ReportOptions): Rep
     file, generatedAt: options.generatedAt, result, estimators, correlated, comparison, reliability, sufficiency, plan, linearModelError,
     chart: { degreePoints, curve, arcResiduals, repeats }, seed, replicates,
   };
+}
+
+/**
+ * The fitted figure's mean degree length over one arc, ŷ = a·|g(φ₂) − g(φ₁)|/|Δφ| (the quantity the
+ * data points measure), with its standard error by the delta method (∂/∂f by a central difference,
+ * step 1e-7).
+ */
+function fittedDegreeLength(fit: CorrelatedFit, lat1: number, lat2: number): { y: number; sd: number } | null {
+  if (!fit.figure || !fit.covariance) return null;
+  const a = fit.semiMajorAxisM;
+  const f = fit.flattening;
+  const C = fit.covariance;
+  const dPhi = Math.abs(lat2 - lat1);
+  const g = (ff: number): number => Math.abs(meridianDistancePerUnitA(ff, lat2) - meridianDistancePerUnitA(ff, lat1));
+  const h = 1e-7;
+  const ga = g(f) / dPhi;
+  const gf = (a * (g(f + h) - g(f - h))) / (2 * h) / dPhi;
+  return { y: a * ga, sd: Math.sqrt(Math.max(0, ga * ga * C[0] + 2 * ga * gf * C[1] + gf * gf * C[3])) };
 }
 
 /**

@@ -26,12 +26,19 @@ const MODEL_REASONS: Record<ModelId, string> = {
 };
 
 const num = (v: number | null | undefined, digits: number): string => (v === null || v === undefined || !Number.isFinite(v) ? '—' : v.toFixed(digits));
-const signed = (v: number | null | undefined, digits: number): string => (v === null || v === undefined || !Number.isFinite(v) ? '—' : `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(digits)}`);
+const signed = (v: number | null | undefined, digits: number): string => {
+  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
+  const text = Math.abs(v).toFixed(digits);
+  return Number(text) === 0 ? text : `${v > 0 ? '+' : '−'}${text}`;
+};
+const plural = (n: number, word: string): string => `${n} ${word}${n === 1 ? '' : 's'}`;
+const pValue = (p: number): string => (p < 1e-3 ? p.toExponential(1) : p.toFixed(3));
 const pm = (v: number | null | undefined, s: number | null | undefined, digits: number): string => `${num(v, digits)}${s !== null && s !== undefined && Number.isFinite(s) ? ` ± ${num(s, digits)}` : ''}`;
 
 function table(head: readonly string[], rows: readonly (readonly string[])[], cls = ''): string {
-  // Cells arrive escaped (or as trusted markup built here); the head is escaped now.
-  return `<table${cls ? ` class="${cls}"` : ''}><thead><tr>${head.map((h) => `<th>${esc(h)}</th>`).join('')}</tr></thead><tbody>${rows.map((r) => `<tr>${r.map((c) => `<td>${c}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
+  // Cells arrive escaped (or as trusted markup built here); the head is escaped now. No head: a key–value table.
+  const thead = head.length > 0 ? `<thead><tr>${head.map((h) => `<th>${esc(h)}</th>`).join('')}</tr></thead>` : '';
+  return `<table${cls ? ` class="${cls}"` : ''}>${thead}<tbody>${rows.map((r) => `<tr>${r.map((c) => `<td>${c}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
 }
 
 const CSS = `
@@ -44,7 +51,7 @@ p { margin: 3pt 0 5pt; } .meta { color: #52606d; font-size: 9pt; }
 table { border-collapse: collapse; width: 100%; margin: 4pt 0 8pt; font-size: 8.6pt; font-variant-numeric: tabular-nums; }
 th, td { border-bottom: 0.6pt solid #d9dee3; padding: 2pt 4pt; text-align: left; vertical-align: top; }
 th { background: #eef2f4; font-weight: 600; } tr { break-inside: avoid; }
-td.n, th.n { text-align: right; } .figure-box { border: 1pt solid #0b7a75; padding: 6pt 10pt; margin: 6pt 0; break-inside: avoid; }
+td:first-child { white-space: nowrap; } table.summary td:first-child { font-weight: 600; width: 18%; } .figure-box { border: 1pt solid #0b7a75; padding: 6pt 10pt; margin: 6pt 0; break-inside: avoid; }
 .figure-box .big { font-size: 13pt; font-weight: 600; } .suspect { color: #c2410c; font-weight: 600; }
 figure { margin: 6pt 0 10pt; break-inside: avoid; } figure svg { width: 100%; height: auto; } figcaption { font-size: 8.6pt; color: #52606d; }
 .notice { border: 1pt solid #1f2933; padding: 6pt 10pt; margin-top: 10pt; break-inside: avoid; }
@@ -104,14 +111,15 @@ function reliabilitySection(d: ReportData): string {
   const arcs = d.reliability.readings.filter((r) => r.kind === 'arc');
   const lat = d.reliability.readings.filter((r) => r.kind === 'latitude' && r.inFit);
   const top = [...lat].sort((x, y) => Math.abs(y.influence?.inverseFlattening ?? 0) - Math.abs(x.influence?.inverseFlattening ?? 0)).slice(0, 10);
-  const rows = (list: typeof arcs): string[][] => list.map((r) => [esc(r.id), esc(r.label), num(r.redundancy, 3), num(r.leverage, 3),
-    r.minimalDetectableBias === null ? 'unchecked' : `${num(r.minimalDetectableBias, r.mdbUnit === 'm' ? 2 : 3)} ${r.mdbUnit === 'm' ? 'm' : '″'}`,
-    num(r.minimalDetectableBiasM, 1), signed(r.influence?.inverseFlattening, 3), signed(r.influence?.semiMajorAxisM, 1)]);
-  const head = ['reading', 'arc / station', 'redundancy', 'leverage', 'MDB', 'MDB on the ground (m)', 'Δ 1/f if left out', 'Δ a (m) if left out'];
-  const statements = arcs.filter((r) => r.inFit).map((r) => `<li>${esc(r.statement)}</li>`).join('');
-  return `<p>Redundancy, leverage and the minimal detectable bias (MDB, the smallest blunder Baarda's test finds with power 80 % at α = 0.001) come from least squares of the arcs with their full covariance and the stated sigmas; the influence is the change of the ${esc(ESTIMATOR_NAMES[d.result.estimator])} figure when the reading is left out and the campaign solved again.</p>
-<h3>Arcs</h3>${table(head, rows(arcs))}<ul>${statements}</ul>
-<h3>Latitude readings with the most influence on 1/f</h3>${table(head, rows(top))}`;
+  const mdb = (r: (typeof arcs)[number], digits: number): string => (r.minimalDetectableBias === null ? 'unchecked' : num(r.minimalDetectableBias, digits));
+  const arcRows = arcs.map((r) => [esc(r.id), esc(r.label), num(r.redundancy, 3), num(r.leverage, 3), mdb(r, 2), num(r.wTest, 2), signed(r.influence?.inverseFlattening, 3), signed(r.influence?.semiMajorAxisM, 1)]);
+  const latRows = top.map((r) => [esc(r.id), esc(r.label), num(r.redundancy, 3), num(r.leverage, 3), mdb(r, 3), num(r.minimalDetectableBiasM, 1), signed(r.influence?.inverseFlattening, 3), signed(r.influence?.semiMajorAxisM, 1)]);
+  // In words: the weakest arcs (largest MDB) and any arc no other reading checks.
+  const weakest = arcs.filter((r) => r.inFit).sort((x, y) => (y.minimalDetectableBias ?? Infinity) - (x.minimalDetectableBias ?? Infinity)).slice(0, 3);
+  return `<p>Redundancy, leverage, Baarda's w and the minimal detectable bias (MDB, the smallest blunder the w-test finds with power 80 % at α = 0.001) come from least squares of the arcs with their full covariance and the stated sigmas; a latitude reading is checked by the other repeats at its station. The influence is the change of the ${esc(ESTIMATOR_NAMES[d.result.estimator])} figure when the reading is left out and the campaign solved again.</p>
+<ul>${weakest.map((r) => `<li>${esc(r.statement)}</li>`).join('')}</ul>
+<h3>Arcs</h3>${table(['reading', 'arc', 'redundancy', 'leverage', 'MDB (m)', 'w', 'Δ 1/f if left out', 'Δ a (m) if left out'], arcRows)}
+<h3>Latitude readings with the most influence on 1/f</h3>${table(['reading', 'station', 'redundancy', 'leverage', 'MDB (″)', 'MDB on the ground (m)', 'Δ 1/f if left out', 'Δ a (m) if left out'], latRows)}`;
 }
 
 function planSection(d: ReportData): string {
@@ -148,14 +156,14 @@ function summarySection(d: ReportData, r: CampaignResult): string {
   const span = lats.length > 0 ? `${num(Math.min(...lats), 3)}° to ${num(Math.max(...lats), 3)}°` : '—';
   const arcsIn = r.readings.filter((x) => x.kind === 'arc' && x.usedInFit !== false && !x.excluded).length;
   const chosen = (key: 'model' | 'estimator'): string => (f.settings?.[key] ? 'chosen in the campaign settings' : 'the default');
-  return table(['', ''], [
+  return table([], [
     ['stations', `${f.stations.length} (latitude span ${span})`],
-    ['readings', `${f.latitudeReadings.length} latitude readings, ${f.arcReadings.length} arc readings (${arcsIn} arcs in the fit), ${(f.exclusions ?? []).length} exclusions`],
+    ['readings', `${plural(f.latitudeReadings.length, 'latitude reading')}, ${plural(f.arcReadings.length, 'arc reading')} (${arcsIn} in the fit), ${plural((f.exclusions ?? []).length, 'exclusion')}`],
     ['model', `<strong>${esc(r.model)}</strong> (${esc(chosen('model'))}): ${esc(MODEL_REASONS[r.model])}`],
     ['estimator', `<strong>${esc(ESTIMATOR_NAMES[r.estimator])}</strong> (${esc(chosen('estimator'))}): ${esc(ESTIMATOR_REASONS[r.estimator])}`],
     ['weighting', r.weighting === 'propagated' ? 'propagated: each arc weighted by its distance sigma and its stations\' latitude sigmas' : 'equal: every arc the same weight'],
     ['status', `${esc(r.status)}${r.statusMessage ? ` — ${esc(r.statusMessage)}` : ''}`],
-    ['fit quality', `RMS ${num(r.quality.rms, 3)} ${esc(r.quality.unit)}, max |residual| ${num(r.quality.maxAbsResidual, 3)} ${esc(r.quality.unit)}${r.quality.chiSquare ? `, χ² = ${num(r.quality.chiSquare.statistic, 2)} on ${r.quality.chiSquare.degreesOfFreedom} degrees of freedom (p = ${num(r.quality.chiSquare.pValue, 3)}, ${r.quality.chiSquare.passes ? 'passes' : 'fails'})` : ''}`],
+    ['fit quality', `RMS ${num(r.quality.rms, 3)} ${esc(r.quality.unit)}, max |residual| ${num(r.quality.maxAbsResidual, 3)} ${esc(r.quality.unit)}${r.quality.chiSquare ? `, χ² = ${num(r.quality.chiSquare.statistic, 2)} on ${r.quality.chiSquare.degreesOfFreedom} degrees of freedom (p = ${pValue(r.quality.chiSquare.pValue)}, ${r.quality.chiSquare.passes ? 'passes' : 'fails'})` : ''}`],
     ['solver', `${esc(r.reason)} (${r.iterations} iterations, ${r.converged ? 'converged' : '<span class="suspect">did not converge</span>'})`],
   ], 'summary');
 }
@@ -187,7 +195,7 @@ ${uncertaintyTable(d)}
 <h2>The five estimators side by side</h2>${estimatorTable(d)}
 <h2>Against the reference ellipsoids</h2>${comparisonSection(d)}
 <h2>Charts</h2>
-<figure>${degreeLengthChart(d.chart.degreePoints, d.chart.curve, 'fitted figure, 95 % band (full arc covariance)')}<figcaption>Degree length s/|Δφ| of each arc at its mid latitude (±1σ) against sin²φ, with the degree length M(φ)·π/180 of the fitted figure and its 95 % band.</figcaption></figure>
+<figure>${degreeLengthChart(d.chart.degreePoints, d.chart.curve, 'fitted figure, 95 % band (full arc covariance)')}<figcaption>Degree length s/|Δφ| of each arc at its mid latitude (±1σ) against sin²φ, with the degree length M(φ)·π/180 of the fitted figure and its 95 % band; below, each arc as its departure from the fitted mean degree length over the same arc, where the bars and the band can be seen.</figcaption></figure>
 <figure>${arcResidualChart(d.chart.arcResiduals, r.suspectThreshold)}<figcaption>Standardized residuals of the arcs in latitude order; beyond the dashed lines (±${num(r.suspectThreshold, 1)}σ) an arc is suspect.</figcaption></figure>
 <figure>${latitudeRepeatsChart(d.chart.repeats)}<figcaption>Latitude repeats per station: each reading minus its station's estimate (″); suspect readings in orange, excluded ones hollow.</figcaption></figure>
 <h2>Flagged and excluded readings</h2>${flaggedSection(d)}
