@@ -15,6 +15,11 @@ import { AppSettingsSchema, DEFAULT_APP_SETTINGS, readAppSettings, SETTING_APP, 
 import { applyTheme } from './theme.ts';
 import { validateRecord } from '../store/index.ts';
 
+/** Page animations off when the person or the phone asks for reduced motion (field-traps ). */
+export function animationsWanted(reduceMotion: boolean): boolean {
+  return !reduceMotion && !window.matchMedia('(prefers-reduced-motion: reduce)').matches;
+}
+
 function Routes() {
   return (
     <IonReactRouter>
@@ -47,7 +52,7 @@ export function App({ services }: { services: Services }) {
   }), [settings, services]);
 
   useEffect(() => applyTheme(settings), [settings]);
-  useEffect(() => { setupIonicReact({ animated: !settings.reduceMotion }); }, [settings.reduceMotion]);
+  useEffect(() => { setupIonicReact({ animated: animationsWanted(settings.reduceMotion) }); }, [settings.reduceMotion]);
   useEffect(() => services.fits.setSettings(settings), [services, settings]);
 
   return (

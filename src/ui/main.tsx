@@ -14,7 +14,7 @@ import { setupIonicReact } from '@ionic/react';
 import { createRoot } from 'react-dom/client';
 import { browserStorage, classifyStorageError, openFieldStore, readSetting } from '../store/index.ts';
 import { SolveClient } from '../worker/index.ts';
-import { App } from './app.tsx';
+import { animationsWanted, App } from './app.tsx';
 import { LiveFitHub } from './live/index.ts';
 import { AppUpdates } from './pwa/index.ts';
 import { readAppSettings, SETTING_APP } from './settings/app-settings.ts';
@@ -34,7 +34,7 @@ async function boot(rootEl: HTMLElement): Promise<void> {
     return;
   }
   const settings = readAppSettings(await readSetting(store.db, SETTING_APP));
-  setupIonicReact({ animated: !settings.reduceMotion });
+  setupIonicReact({ animated: animationsWanted(settings.reduceMotion) });
   const solver = new SolveClient();
   const fits = new LiveFitHub(store.db, solver, settings);
   const services = {

@@ -52,7 +52,7 @@ export function CampaignPage() {
             const sum = summaryOf.get(s.code);
             const flagged = sum?.suspectReadingIds.some((id) => suspectIds.has(id));
             return (
-              <IonItem key={s.id} button detail routerLink={`/campaigns/${cid}/stations/${encodeURIComponent(s.code)}`} data-testid="station-item">
+              <IonItem key={s.id} button detail routerLink={`/campaigns/${cid}/stations/${s.id}`} data-testid="station-item">
                 <IonLabel>
                   <h2>{s.code}{s.record?.name ? ` — ${s.record.name}` : ''}</h2>
                   <p>{s.record?.heightM !== undefined ? `h ${s.record.heightM} m · ` : ''}{sum ? `${sum.readingCount} ${sum.kind} reading${sum.readingCount === 1 ? '' : 's'}` : 'no readings yet'}</p>

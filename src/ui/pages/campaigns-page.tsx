@@ -32,6 +32,16 @@ export function CampaignsPage() {
     }
   };
 
+  const onDemo = async () => {
+    const summary = await imported.run('the demo campaign', async () => {
+      // Precached with the app shell (public/examples/), so this works with no signal.
+      const res = await fetch('/examples/demo-campaign.json');
+      if (!res.ok) throw new Error(`the demo file could not be read (HTTP ${res.status})`);
+      return importCampaignFile(store, await res.json(), 'demo-campaign.json');
+    });
+    if (summary) navigate(`/campaigns/${summary.campaignId}`);
+  };
+
   const onFile = async (file: File) => {
     const summary = await imported.run(`“${file.name}”`, async () => {
       const text = await file.text();
@@ -88,6 +98,7 @@ export function CampaignsPage() {
 
         <div className="af-actions af-one">
           <IonButton expand="block" fill="outline" onClick={() => fileInput.current?.click()} data-testid="import-campaign">Import a campaign file…</IonButton>
+          <IonButton expand="block" fill="clear" onClick={() => void onDemo()} data-testid="open-demo">Add the demo campaign (invented data)</IonButton>
           <input ref={fileInput} type="file" accept=".json,application/json" hidden data-testid="import-file"
             onChange={(e) => { const f = e.target.files?.[0]; if (f) void onFile(f); }} />
         </div>

@@ -39,7 +39,7 @@ export function FitPage() {
   const cs = campaign?.record?.settings;
   const estimator = cs?.estimator ?? settings.estimator;
   const model = cs?.model ?? settings.model;
-  const refId = cs?.referenceEllipsoid ?? settings.referenceEllipsoid;
+  const refId = (cs?.referenceEllipsoid ?? settings.referenceEllipsoid).toLowerCase().replace(/[\s_-]/g, '');
   const ref = isEllipsoidId(refId) ? ELLIPSOIDS[refId] : null;
 
   const setSolve = (patch: { estimator?: EstimatorId; model?: ModelId }) => {

@@ -98,7 +98,7 @@ function LatitudeForm({ cid, row, station }: { cid: string; row: LatitudeReading
         {stations?.length === 0 && <p className="af-error">Add a station first.</p>}
         <IonItem lines="none"><IonLabel>Kind</IonLabel></IonItem>
         <IonSegment value={d.kind} onIonChange={(e) => draft.update({ kind: e.detail.value === 'geodetic' ? 'geodetic' : 'astronomic' })} data-testid="latitude-kind">
-          <IonSegmentButton value="astronomic" data-testid="kind-astronomic"><IonLabel>Astronomic (instrument)</IonLabel></IonSegmentButton>
+          <IonSegmentButton value="astronomic" data-testid="kind-astronomic"><IonLabel>Astronomic</IonLabel></IonSegmentButton>
           <IonSegmentButton value="geodetic" data-testid="kind-geodetic"><IonLabel>Geodetic (GNSS)</IonLabel></IonSegmentButton>
         </IonSegment>
         <IonItem>

@@ -6,6 +6,7 @@ import {
   IonNote, IonPage, IonTextarea, IonTitle, IonToolbar,
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
+import { useState } from 'react';
 import { useNavigate, useParams } from 'react-router-dom';
 import type { StationRow } from '../../store/index.ts';
 import { latitudeReadingsOfStation } from '../../store/index.ts';
@@ -20,6 +21,7 @@ function StationForm({ cid, row }: { cid: string; row: StationRow | null }) {
   const { store } = useServices();
   const navigate = useNavigate();
   const save = useSaveState();
+  const [lastNew, setLastNew] = useState<StationRow | null>(null);
   const rec = row?.record;
   const draft = useDraft<StationDraft>(`station:${cid}:${row?.id ?? 'new'}`, {
     code: rec?.code ?? '', name: rec?.name ?? '', height: rec?.heightM !== undefined ? String(rec.heightM) : '', notes: rec?.notes ?? '',
@@ -36,10 +38,10 @@ function StationForm({ cid, row }: { cid: string; row: StationRow | null }) {
       ...(draft.value.notes.trim() ? { notes: draft.value.notes.trim() } : {}),
       ...(rec?.longitudeDeg !== undefined ? { longitudeDeg: rec.longitudeDeg } : {}),
     }));
-    if (saved) {
-      await draft.reset({ code: saved.code, name: saved.record?.name ?? '', height: saved.record?.heightM !== undefined ? String(saved.record.heightM) : '', notes: saved.record?.notes ?? '' });
-      if (!row) navigate(`/campaigns/${cid}/stations/${saved.id}`, { replace: true });
-    }
+    if (!saved) return;
+    // A new station: the form clears for the next one ("Saved" stays in view, with a link to it).
+    if (row) await draft.reset({ code: saved.code, name: saved.record?.name ?? '', height: saved.record?.heightM !== undefined ? String(saved.record.heightM) : '', notes: saved.record?.notes ?? '' });
+    else { await draft.reset(); setLastNew(saved); }
   };
 
   return (
@@ -70,6 +72,9 @@ function StationForm({ cid, row }: { cid: string; row: StationRow | null }) {
         </IonButton>
       </div>
       <SaveStatus state={save.state} />
+      {lastNew && save.state.phase === 'saved' && (
+        <IonButton fill="clear" onClick={() => navigate(`/campaigns/${cid}/stations/${lastNew.id}`)} data-testid="open-new-station">Open station {lastNew.code}</IonButton>
+      )}
       {draft.writeError && <p className="af-error">{draft.writeError}</p>}
     </>
   );
@@ -95,9 +100,9 @@ export function StationPage() {
         </IonToolbar>
       </IonHeader>
       <IonContent>
-        {row === undefined ? <p className="af-hint">Loading…</p> : row === null && !isNew ? <p className="af-error">No such station on this device.</p> : (
-          <StationForm key={row?.id ?? 'new'} cid={cid} row={row} />
-        )}
+        {row === undefined && <p className="af-hint">Loading…</p>}
+        {row === null && !isNew && <p className="af-error">No such station on this device.</p>}
+        {isNew && <StationForm key="new" cid={cid} row={null} />}
         {row && (
           <>
             <LiveFitStrip campaignId={cid} />
@@ -136,6 +141,8 @@ export function StationPage() {
               <IonButton className="af-primary-action" expand="block" routerLink={`/campaigns/${cid}/latitude/new?station=${encodeURIComponent(row.code)}`}
                 data-testid="station-add-latitude">Latitude reading at {row.code}</IonButton>
             </div>
+            <IonListHeader><IonLabel>Station details</IonLabel></IonListHeader>
+            <StationForm key={row.id} cid={cid} row={row} />
           </>
         )}
       </IonContent>

@@ -64,5 +64,6 @@ export function solveOptionsFor(app: AppSettings, campaign: CampaignSettings | u
     weighting: campaign?.weighting ?? 'propagated',
     suspectThreshold: campaign?.suspectThreshold ?? app.suspectThreshold,
     referenceEllipsoid: campaign?.referenceEllipsoid ?? app.referenceEllipsoid,
+    ...(campaign?.latitudeKind ? { latitudeKind: campaign.latitudeKind } : {}),
   };
 }
