@@ -229,7 +229,7 @@ export function importCsvTable(campaign: CampaignFile, csvText: string, options:
     }
     valid.push({ row: record, value });
   }
-  if (parsed.records.length === 0) problems.push({ field: 'row 2', value: '', reason: 'the file has a header but no rows', source });
+  // A header with no rows is a valid, empty table (our own export of an empty table): 0 rows imported.
 
   // Merge into a copy of the campaign (structuredClone: the caller's object stays untouched).
   const merged = structuredClone(campaign);
