@@ -1,6 +1,6 @@
 // `arcfield export`: every CSV table into a folder, one table to stdout, GeoJSON of the stations,
 // and the campaign file round trip — export → import → the same records and the same fit.
-import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
