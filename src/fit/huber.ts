@@ -3,7 +3,7 @@
 // weight is min(1, k/|u|). k = 1.345 gives 95 % efficiency at the normal (check-values.md).
 // Convex at a fixed scale, so the estimate does not depend on the start, only on the scale.
 import { fitLeastAbsolute } from './least-absolute.ts';
-import { mEstimate, tuningOrDefault, type RhoFunction } from './irls.ts';
+import { mEstimate, tuningOrDefault, type RhoFunction, type SweepState } from './irls.ts';
 import { validateProblem } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
@@ -25,6 +25,32 @@ export function huberRho(k: number): RhoFunction {
     weight: (u) => {
       const a = Math.abs(u);
       return a <= k ? 1 : k / a;
+    },
+    sweep: (r: Float64Array, sw: Float64Array, s: number, v: Float64Array, h: Float64Array, side: Uint8Array, state: SweepState) => {
+      let objective = 0;
+      let changed = false;
+      const half = 0.5 * k * k;
+      for (let i = 0; i < r.length; i++) {
+        const w = sw[i];
+        const u = (w * r[i]) / s;
+        const a = Math.abs(u);
+        const w2 = w * w;
+        let sd = 0;
+        if (a <= k) {
+          objective += 0.5 * u * u;
+          v[i] = w2;
+          h[i] = w2;
+          sd = 1;
+        } else {
+          objective += k * a - half;
+          v[i] = (w2 * k) / a;
+          h[i] = 0;
+        }
+        if (side[i] !== sd) changed = true;
+        side[i] = sd;
+      }
+      state.changed = changed;
+      return objective;
     },
   };
 }

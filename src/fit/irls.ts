@@ -29,7 +29,14 @@ export interface RhoFunction {
   psi(u: number): number;
   psiDerivative(u: number): number;
   weight(u: number): number;
+  /**
+   * One IRLS sweep in a single loop (no per-row calls): for uᵢ = swᵢrᵢ/s writes vᵢ = swᵢ²·ψ(uᵢ)/uᵢ,
+   * hᵢ = swᵢ²·ψ′(uᵢ) and sideᵢ = [ψ′(uᵢ) > 0]; returns Σρ(uᵢ), and in sweep.changed whether any side flipped.
+   */
+  sweep(r: Float64Array, sw: Float64Array, s: number, v: Float64Array, h: Float64Array, side: Uint8Array, state: SweepState): number;
 }
+
+export interface SweepState { changed: boolean }
 
 /** Default relative tolerance on the coefficients (types.ts: 1e-12 for IRLS). */
 export const IRLS_TOLERANCE = 1e-12;
@@ -120,6 +127,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const v = new Float64Array(n);
   const h = new Float64Array(n);
   const side = new Uint8Array(n);
+  const sweepState: SweepState = { changed: false };
   const delta = new Float64Array(p);
   const qdiag = new Float64Array(p);
   const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
@@ -129,21 +137,9 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let lastWasNewton = false;
   let objectiveBefore = Infinity;
   while (stop.iterations < maxIterations) {
-    let objective = 0;
-    let sameSides = true;
     residualsOf(problem, beta, r);
-    for (let i = 0; i < n; i++) {
-      const u = (sw[i] * r[i]) / s;
-      const wi = sw[i] * sw[i];
-      objective += rho.rho(u);
-      v[i] = wi * rho.weight(u);
-      const d = rho.psiDerivative(u);
-      h[i] = wi * d;
-      const sd = d > 0 ? 1 : 0;
-      if (sd !== side[i]) sameSides = false;
-      side[i] = sd;
-    }
-    if (lastWasNewton && rho.piecewiseQuadratic && sameSides) {
+    const objective = rho.sweep(r, sw, s, v, h, side, sweepState);
+    if (lastWasNewton && rho.piecewiseQuadratic && !sweepState.changed) {
       // Exact: the step solved the quadratic that holds on this partition, and it still holds.
       stop.converged = true;
       stop.exact = true;
