@@ -61,6 +61,7 @@ export interface OursRun {
     coldResult: FitSummary;
     warmResult: FitSummary;
   };
+  warmRefitError?: string;
 }
 
 function summarize(r: FitResult): FitSummary {
@@ -119,14 +120,19 @@ function runOne(fit: EstimatorFn, estimator: Estimator, path: string, timing: Ti
   base.floor = timeCall(() => onePassFloor(problem.X, problem.y, problem.p, header.trueCoefficients), timing, (s) => { floorSink += s; });
   if (!Number.isFinite(floorSink)) throw new Error('floor pass produced a non-finite sum');
   if (warmRefit) {
-    const before = fit(withoutLastRow(problem));
-    const warmStart: NonNullable<FitOptions['warmStart']> = { coefficients: before.coefficients, scale: before.scale };
-    if (before.basis) warmStart.basis = before.basis;
-    let coldLast = first;
-    let warmLast = first;
-    const cold = timeCall(() => fit(problem), timing, (r) => { coldLast = r; });
-    const warm = timeCall(() => fit(problem, { warmStart }), timing, (r) => { warmLast = r; });
-    base.warmRefit = { previousN: problem.n - 1, cold, warm, coldResult: summarize(coldLast), warmResult: summarize(warmLast) };
+    // A failure here must not hide the cold figures above: it is reported on its own.
+    try {
+      const before = fit(withoutLastRow(problem));
+      const warmStart: NonNullable<FitOptions['warmStart']> = { coefficients: before.coefficients, scale: before.scale };
+      if (before.basis) warmStart.basis = before.basis;
+      let coldLast = first;
+      let warmLast = first;
+      const cold = timeCall(() => fit(problem), timing, (r) => { coldLast = r; });
+      const warm = timeCall(() => fit(problem, { warmStart }), timing, (r) => { warmLast = r; });
+      base.warmRefit = { previousN: problem.n - 1, cold, warm, coldResult: summarize(coldLast), warmResult: summarize(warmLast) };
+    } catch (e) {
+      base.warmRefitError = `threw ${(e as Error).name}: ${(e as Error).message}`;
+    }
   }
   return base;
 }

@@ -38,6 +38,7 @@ export function oursRecord(run: OursRun, data: RoundData): OursRecord {
     converged: r?.converged ?? null,
     reason: r?.reason ?? null,
     scale: r?.scale ?? null,
+    warmRefitError: run.warmRefitError ?? null,
   };
 }
 

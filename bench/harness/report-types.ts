@@ -49,6 +49,8 @@ export interface OursRecord {
   converged: boolean | null;
   reason: string | null;
   scale: number | null;
+  /** Set when the warm refit (n = 10⁴ only) threw; the cold figures stand. */
+  warmRefitError: string | null;
 }
 
 export interface Exactness {

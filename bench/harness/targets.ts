@@ -15,7 +15,7 @@ const LS_WITHIN_NUMPY = 2;
 const MEMORY_RATIO = 4;
 const WARM_RATIO = 1 / 20;
 
-type Part = Pick<BenchReport, 'results' | 'peers' | 'memory' | 'warmRefit' | 'settings'>;
+type Part = Pick<BenchReport, 'results' | 'ours' | 'peers' | 'memory' | 'warmRefit' | 'settings'>;
 
 function targetSize(report: Part): { n: number; note: string } {
   const sizes = report.settings.sizes;
@@ -73,6 +73,8 @@ export function evaluateTargets(report: Part, estimators: readonly Estimator[]):
   for (const est of estimators) {
     const rows = report.warmRefit.filter((w) => w.estimator === est && w.n === WARM_N);
     const name = `${est}: warm refit after one more reading at n = ${formatSize(WARM_N)} under 1/20 of a cold fit`;
+    const errors = report.ours.filter((o) => o.estimator === est && o.n === WARM_N && o.warmRefitError).map((o) => `p = ${o.p}: ${o.warmRefitError}`);
+    if (errors.length > 0) { lines.push({ name, pass: false, detail: `warm refit threw (${errors.join('; ')})` }); continue; }
     if (rows.length === 0) { lines.push({ name, pass: null, detail: 'no figure' }); continue; }
     const worst = rows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
     lines.push({ name, pass: rows.every((r) => r.ratio < WARM_RATIO && r.sameResult), detail: `worst 1/${(1 / worst.ratio).toFixed(1)} at p = ${worst.p} (warm ${formatSeconds(worst.warmSeconds)}, cold ${formatSeconds(worst.coldSeconds)}), same answer: ${rows.every((r) => r.sameResult) ? 'yes' : 'NO'}` });
