@@ -27,7 +27,7 @@ import { probeAvailability } from './harness/peer-availability.ts';
 import { PEERS } from './harness/peer-registry.ts';
 import { runPeer, type PeerContext } from './harness/peer-runs.ts';
 import { readDataset } from './harness/dataset-file.ts';
-import type { BenchReport, MemoryRow, OursRecord, PeerRun, ResultRow, WarmRefitRow } from './harness/report-types.ts';
+import type { BenchReport, MemoryRow, OursRecord, PeerRun, ResultRow, RoundInfo, WarmRefitRow } from './harness/report-types.ts';
 import { lastJsonLine, runChild, stderrTail } from './harness/run-child.ts';
 import { evaluateTargets, WARM_N } from './harness/targets.ts';
 import { DEFAULT_TIMING, type TimingOptions } from './harness/timing.ts';
@@ -121,10 +121,13 @@ async function main(): Promise<void> {
   const peerRuns: PeerRun[] = [];
   const memory: MemoryRow[] = [];
   const warmRefit: WarmRefitRow[] = [];
+  const rounds: RoundInfo[] = [];
   progress(`sizes ${settings.sizes.map(formatSize).join(', ')}; estimators ${settings.estimators.join(', ')}; ${peers.length} peers; cap ${settings.capSeconds} s`);
 
   for (const n of settings.sizes) {
     for (const p of [2, 3] as const) {
+      const roundStart = process.hrtime.bigint();
+      const round0 = { n, p, startedAt: new Date().toISOString(), loadAverageStart: Math.round(loadavg()[0] * 100) / 100 };
       const path = ensureDataset({ n, p, seed: settings.seed });
       const ds = readDataset(path);
       const data: RoundData = { n, p, X: designMatrix(ds.x, p), y: ds.y, noiseSd: ds.header.noiseSdM };
@@ -151,6 +154,8 @@ async function main(): Promise<void> {
         const rec = roundOurs.get(est);
         if (rec) results.push(resultRow(est, rec, round, data));
       }
+      rounds.push({ ...round0, wallSeconds: Number(process.hrtime.bigint() - roundStart) / 1e9, loadAverageEnd: Math.round(loadavg()[0] * 100) / 100 });
+      progress(`n=${formatSize(n)} p=${p} round done; load average ${round0.loadAverageStart} → ${loadavg()[0].toFixed(2)}`);
     }
   }
 
@@ -162,7 +167,7 @@ async function main(): Promise<void> {
     format: 'arcfield-bench-results', version: 1, startedAt, finishedAt: new Date().toISOString(),
     command: `npm run bench -- ${process.argv.slice(2).join(' ')}`.trim(),
     ...base,
-    machine, loadAverageAtEnd: loadavg().map((v) => Math.round(v * 100) / 100),
+    machine, loadAverageAtEnd: loadavg().map((v) => Math.round(v * 100) / 100), rounds,
     rules: {
       timing: 'each side times itself in-process: one warm-up call, then batched repeats within a budget (bench/harness/timing.ts); median, min, max reported; start-up and file reading excluded',
       floor: 'one plain pass Σ|yᵢ − xᵢᵀβ| for the true β over the same X and y, timed in the same process as our fit',

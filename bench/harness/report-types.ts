@@ -118,6 +118,16 @@ export interface TargetLine {
   detail: string;
 }
 
+/** One (n, p) round: when it ran and how busy the machine was (the 1-minute load average). */
+export interface RoundInfo {
+  n: number;
+  p: number;
+  startedAt: string;
+  wallSeconds: number;
+  loadAverageStart: number;
+  loadAverageEnd: number;
+}
+
 export interface BenchReport {
   format: 'arcfield-bench-results';
   version: 1;
@@ -134,6 +144,7 @@ export interface BenchReport {
   };
   machine: MachineInfo;
   loadAverageAtEnd: number[];
+  rounds: RoundInfo[];
   rules: Record<string, string>;
   results: ResultRow[];
   ours: OursRecord[];
