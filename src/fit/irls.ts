@@ -196,7 +196,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       break;
     }
   }
-  return finish(problem, rho, start, beta, sw, stop, ws);
+  return finish(problem, rho, start, beta, { sw, v, h, side, sweepState }, stop, ws);
 }
 
 interface Stop {
@@ -211,24 +211,28 @@ interface Stop {
   tol: number;
 }
 
-function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, sw: Float64Array,
+interface Buffers { sw: Float64Array; v: Float64Array; h: Float64Array; side: Uint8Array; sweepState: SweepState }
+
+function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, buf: Buffers,
   stop: Stop, ws: ReturnType<typeof createNormalWorkspace>): FitResult {
   const { iterations, converged, atRounding, exact, change, tol, newtonSteps, rejected } = stop;
   const { n, p } = problem;
+  const { sw, v, h } = buf;
   const s = start.scale;
   const residuals = residualsOf(problem, beta);
+  const objective = rho.sweep(residuals, sw, s, v, h, buf.side, buf.sweepState);
+  // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
   const robustWeights = new Float64Array(n);
-  let objective = 0;
   let sumPsi2 = 0;
   let sumD = 0;
   let sumD2 = 0;
   for (let i = 0; i < n; i++) {
-    const u = (sw[i] * residuals[i]) / s;
-    robustWeights[i] = rho.weight(u);
-    objective += rho.rho(u);
-    const ps = rho.psi(u);
+    const w2 = sw[i] * sw[i];
+    const wt = v[i] / w2;
+    robustWeights[i] = wt;
+    const ps = ((sw[i] * residuals[i]) / s) * wt;
     sumPsi2 += ps * ps;
-    const d = rho.psiDerivative(u);
+    const d = h[i] / w2;
     sumD += d;
     sumD2 += d * d;
   }
