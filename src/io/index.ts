@@ -10,3 +10,8 @@ export { recordTableCsv } from './record-csv.ts';
 export { importCsvTable, matchColumns, type CsvImportOptions, type CsvImportResult, type ColumnMatch, type ImportMode } from './csv-import.ts';
 export { stationsGeoJson, stationsGeoJsonText, GEOJSON_DECIMALS, type StationCollection, type StationFeature, type StationProperties } from './stations-geojson.ts';
 export { RESULT_TABLE_IDS, isResultTableId, resultTableCsv, type ResultTableId } from './result-tables.ts';
+export { buildReportData, REPORT_BOOTSTRAP_REPLICATES, type ReportData, type ReportOptions } from './report-data.ts';
+export { campaignReportHtml } from './report-html.ts';
+export { degreeLengthChart, arcResidualChart, latitudeRepeatsChart } from './report-charts.ts';
+export { FIELD_CAUTIONS, LEGAL_NOTICE } from './report-notices.ts';
+export { escapeHtml } from './html-escape.ts';
