@@ -5,7 +5,7 @@ import { existsSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { InputError } from '../errors.ts';
 import { createCampaign } from '../server/create-campaign.ts';
-import { createServer } from '../server/create-server.ts';
+import { createServer, DEFAULT_LIMITS } from '../server/create-server.ts';
 import { DEFAULT_DATABASE, describeDatabase, openStorage } from '../server/open-storage.ts';
 import type { SyncStorage } from '../server/storage.ts';
 import { issueTokenOffline } from './token-issue.ts';
@@ -25,6 +25,7 @@ options:
   --no-static              API only
   --min-client-version V   oldest app build allowed to sync (default 0.0.0)
   --log                    log every request (JSON lines; tokens are redacted)
+  --rate-limit R           requests per second per crew token, burst 6·R (default 20)
 
 bootstrap (uses only the database, then exits):
   --create-campaign NAME   create a campaign and print its id and first lead token (shown once)
@@ -49,7 +50,7 @@ export async function run(argv: readonly string[]): Promise<number> {
       allowPositionals: false,
       options: {
         host: { type: 'string' }, port: { type: 'string' }, database: { type: 'string' }, static: { type: 'string' },
-        'no-static': { type: 'boolean' }, 'min-client-version': { type: 'string' }, log: { type: 'boolean' },
+        'no-static': { type: 'boolean' }, 'min-client-version': { type: 'string' }, log: { type: 'boolean' }, 'rate-limit': { type: 'string' },
         'create-campaign': { type: 'string' }, 'issue-token': { type: 'boolean' }, campaign: { type: 'string' },
         role: { type: 'string' }, label: { type: 'string' }, device: { type: 'string' }, help: { type: 'boolean', short: 'h' },
       },
@@ -65,8 +66,11 @@ export async function run(argv: readonly string[]): Promise<number> {
   const database = values.database ?? process.env.ARCFIELD_DATABASE ?? DEFAULT_DATABASE;
   const host = values.host ?? '127.0.0.1';
   let port: number;
+  let perSecond: number;
   try {
     port = parsePort(values.port);
+    perSecond = values['rate-limit'] === undefined ? DEFAULT_LIMITS.perToken.perSecond : Number(values['rate-limit']);
+    if (!Number.isFinite(perSecond) || perSecond <= 0 || perSecond > 1e6) throw new InputError('--rate-limit', values['rate-limit'], 'requests per second, greater than 0');
     if (values['issue-token'] && values['create-campaign'] !== undefined) throw new InputError('--issue-token', true, 'use --create-campaign or --issue-token, not both');
   } catch (err) {
     return fail(err);
@@ -110,7 +114,10 @@ export async function run(argv: readonly string[]): Promise<number> {
     await storage.close();
     return fail(new InputError('--static', values.static, 'no such folder (build the app with `npm run build`)'));
   }
-  const app = await createServer({ storage, staticDir, minClientVersion: values['min-client-version'] ?? '0.0.0', logger: values.log === true });
+  const app = await createServer({
+    storage, staticDir, minClientVersion: values['min-client-version'] ?? '0.0.0', logger: values.log === true,
+    limits: { perToken: { perSecond, burst: Math.max(1, Math.round(6 * perSecond)) } },
+  });
   try {
     await app.listen({ host, port });
   } catch (err) {
