@@ -46,11 +46,14 @@ export function validateProblem(problem: LinearProblem): void {
   if (!Number.isInteger(p) || p < 1) throw new InputError('p', p, 'must be a whole number >= 1');
   if (!(X instanceof Float64Array) || X.length !== n * p) throw new InputError('X', X?.length, `must be a Float64Array of n·p = ${n * p} values`);
   if (!(y instanceof Float64Array) || y.length !== n) throw new InputError('y', y?.length, `must be a Float64Array of n = ${n} values`);
-  for (let k = 0; k < X.length; k++) {
-    if (!Number.isFinite(X[k])) throw new InputError(`X[${Math.floor(k / p)}, ${k % p}]`, X[k], 'design values must be finite');
+  // x·0 is NaN exactly when x is ±∞ or NaN: one branch-free sum per array, the search only on failure.
+  if (Number.isNaN(zeroSum(X))) {
+    const k = X.findIndex((v) => !Number.isFinite(v));
+    throw new InputError(`X[${Math.floor(k / p)}, ${k % p}]`, X[k], 'design values must be finite');
   }
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i])) throw new InputError(`y[${i}]`, y[i], 'readings must be finite');
+  if (Number.isNaN(zeroSum(y))) {
+    const i = y.findIndex((v) => !Number.isFinite(v));
+    throw new InputError(`y[${i}]`, y[i], 'readings must be finite');
   }
   if (weights !== undefined) {
     if (!(weights instanceof Float64Array) || weights.length !== n) throw new InputError('weights', weights?.length, `must be a Float64Array of n = ${n} values`);
@@ -59,6 +62,12 @@ export function validateProblem(problem: LinearProblem): void {
       if (!Number.isFinite(w) || w <= 0) throw new InputError(`weights[${i}]`, w, 'weights are 1/σ² and must be finite and > 0');
     }
   }
+}
+
+function zeroSum(a: Float64Array): number {
+  let acc = 0;
+  for (let k = 0; k < a.length; k++) acc += a[k] * 0;
+  return acc;
 }
 
 /** √wᵢ for every row (all ones without weights). */
