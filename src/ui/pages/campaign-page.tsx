@@ -5,8 +5,9 @@ import {
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useParams } from 'react-router-dom';
-import { countReadings, getCampaign, readingPage, stationsOf } from '../../store/index.ts';
+import { countReadings, getCampaign, loadCampaignRecords, readingPage, stationsOf } from '../../store/index.ts';
 import { LiveFitStrip } from '../components/index.ts';
+import { ReportAction, campaignFileOf } from '../decisions/index.ts';
 import { formatLength } from '../format/index.ts';
 import { useAppSettings, useLiveFit, useServices } from '../live/index.ts';
 
@@ -44,6 +45,7 @@ export function CampaignPage() {
           <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/readings`} data-testid="open-readings">All readings ({counts ?? '…'})</IonButton>
           <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/sync`} data-testid="open-sync">Sync</IonButton>
         </div>
+        <ReportAction loadCampaign={async () => { const r = await loadCampaignRecords(store.db, cid); return r ? campaignFileOf(r) : undefined; }} />
 
         <IonList data-testid="station-list">
           <IonListHeader><IonLabel>Stations ({stations?.length ?? '…'})</IonLabel></IonListHeader>

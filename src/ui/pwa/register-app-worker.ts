@@ -64,8 +64,18 @@ export class AppUpdates {
     return true;
   }
 
-  /** The person chose "Reload": activate the waiting version, which reloads the page. */
+  /**
+   * The person chose "Reload": activate the waiting version, then reload once it controls the page.
+   * vite-plugin-pwa reloads by itself only for updates its own registration found; one found by the
+   * resume/hourly check counts as "external" there, so the reload is done here on controllerchange.
+   */
   async reloadNow(): Promise<void> {
+    const reg = await navigator.serviceWorker.getRegistration();
+    if (!reg?.waiting) {
+      window.location.reload();
+      return;
+    }
+    navigator.serviceWorker.addEventListener('controllerchange', () => window.location.reload(), { once: true });
     await this.applyUpdate?.(true);
   }
 
