@@ -7,7 +7,8 @@ import { useLiveQuery } from 'dexie-react-hooks';
 import { useParams } from 'react-router-dom';
 import { countReadings, getCampaign, loadCampaignRecords, readingPage, stationsOf } from '../../store/index.ts';
 import { LiveFitStrip } from '../components/index.ts';
-import { ReportAction, campaignFileOf } from '../decisions/index.ts';
+import { ReportAction } from '../decisions/report-action.tsx';
+import { campaignFileOf } from '../decisions/campaign-file-of.ts';
 import { formatLength } from '../format/index.ts';
 import { useAppSettings, useLiveFit, useServices } from '../live/index.ts';
 
