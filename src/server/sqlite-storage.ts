@@ -45,14 +45,24 @@ export class SqliteStorage implements SyncStorage {
     return run;
   }
 
+  /** Prepared once per SQL text: preparing costs more than running these small statements. */
+  private readonly statements = new Map<string, Database.Statement>();
+  private stmt(sql: string): Database.Statement {
+    let st = this.statements.get(sql);
+    if (!st) {
+      st = this.db.prepare(sql);
+      this.statements.set(sql, st);
+    }
+    return st;
+  }
   private all(sql: string, ...params: unknown[]): Row[] {
-    return this.db.prepare(sql).all(...params) as Row[];
+    return this.stmt(sql).all(...params) as Row[];
   }
   private one(sql: string, ...params: unknown[]): Row | undefined {
-    return this.db.prepare(sql).get(...params) as Row | undefined;
+    return this.stmt(sql).get(...params) as Row | undefined;
   }
   private run(sql: string, ...params: unknown[]): number {
-    return this.db.prepare(sql).run(...params).changes;
+    return this.stmt(sql).run(...params).changes;
   }
 
   async migrate(): Promise<number> {
