@@ -17,3 +17,11 @@ export { flagResiduals, type ResidualFlags } from './residual-flags.ts';
 export { solveCampaign, DEFAULT_SUSPECT_THRESHOLD, DEFAULT_REFERENCE_ELLIPSOID, CHI_SQUARE_ALPHA } from './solve-campaign.ts';
 export { demoCampaign, DEMO_BLUNDERS, DEMO_ARC_BLUNDERS_M, DEMO_SEED, DEMO_ELLIPSOID_ID, DEMO_STATIONS, type DemoStation } from './demo.ts';
 export { seededRandom, type SeededRandom } from './seeded-random.ts';
+// Campaign decisions: correlated arcs, reliability, planning, sufficiency, bootstrap, comparison.
+export { arcNetwork, type ArcNetwork, type NetworkArc, type NetworkStation, type NetworkOptions } from './reliability-network.ts';
+export { fitCorrelatedArcs, designCovariance, arcDesign, type CorrelatedFit, type CorrelatedStatus, type ArcDesign } from './reliability-gls.ts';
+export { campaignReliability, type CampaignReliability, type ReadingReliability, type ReliabilityOptions } from './reliability.ts';
+export { planCampaign, candidateLatitudes, type CampaignPlan, type PlanCandidate, type PlanOptions } from './plan-next-station.ts';
+export { stationSufficiency, DEFAULT_TARGET_SIGMA_ARCSEC, type StationSufficiency } from './sufficiency.ts';
+export { bootstrapFigure, DEFAULT_BOOTSTRAP_REPLICATES, DEFAULT_BOOTSTRAP_SEED, type BootstrapResult, type BootstrapSummary, type BootstrapOptions } from './bootstrap.ts';
+export { compareWithEllipsoids, COMPARISON_ALPHA, type EllipsoidComparison, type FigureWithUncertainty } from './compare-ellipsoids.ts';
