@@ -1,0 +1,377 @@
+// Exact least absolute deviations: minimise Σ √wᵢ |yᵢ − xᵢᵀβ| (weights wᵢ = 1/σᵢ², types.ts).
+//
+// The optimum of this linear programme is attained at a vertex: p rows interpolated (Barrodale &
+// Roberts 1973; check-values.md). The fit is exact in the LP sense: the returned vertex carries
+// a dual certificate over all n rows bounding the relative optimality gap by GAP_TOL = 1e-10
+// (least-absolute-certificate.ts, least-absolute-proof.ts), or the result says
+// `converged: false` with the reason.
+//
+// Route, by size (constants tuned on the benchmark data of bench/quick-exact.ts):
+// - n ≤ DIRECT_MAX_ROWS: all rows go to the vertex descent (least-absolute-descent.ts) in the
+//   column frame (simplex-frame.ts), started from least squares; a final pass certifies.
+// - larger n: the preprocessing of Portnoy & Koenker (Statistical Science 12 (1997) 279, §4).
+//   A systematic subsample of (p·n)^(2/3) rows is fitted (least-absolute-subsample.ts, itself
+//   screened when large); one streaming pass (least-absolute-screen.ts) keeps the rows inside a
+//   leverage-shaped band around that fit (least-absolute-band.ts) and pins the rest to their
+//   sides as a linear term; the kept rows are solved exactly from the subsample's vertex. The
+//   answer is then proven without another accounting pass: the fit moved by D in the band's
+//   metric, every pinned row's residual by at most its leverage times D, so D below the band
+//   keeps every pinned side and the small problem's dual condition is the full one. If that
+//   proof is missing (D too large), a full certification pass decides; if it fails, the band
+//   is widened around the newer fit and the round repeats.
+// - a warm start (a previous solution, e.g. before one more reading): no subsample; the band is
+//   sized to hold ~WARM_KEPT_ROWS·p rows around the previous fit and the previous basis is the
+//   first vertex, so a refit after one more row costs about two passes over the data.
+import { bandFromSubsample, bandHalfWidth, inverseGram, leverage, makeBand, widen, withRoundingFloor, type Band } from './least-absolute-band.ts';
+import { certify, finalPass, ROW_ZERO_EPS, type Certificate, type FinalPass } from './least-absolute-certificate.ts';
+import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult, type DescentStart } from './least-absolute-descent.ts';
+import { proveByBand, residualPass, type BandProof } from './least-absolute-proof.ts';
+import { screenRows, type FullScreen } from './least-absolute-screen.ts';
+import { fitSubsample, leastSquaresStart, positionsIn, binarySearch, type SubsampleOptions } from './least-absolute-subsample.ts';
+import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoefficients, type ColumnFrame } from './simplex-frame.ts';
+import { assertProblemShape, systematicSample, unsolved, vetWarmStart } from './simplex-problem.ts';
+import { designRank } from './simplex-rank.ts';
+import { madScaleInPlace, planScale, planShiftedScale, type ScaleCollector } from './simplex-residual-scale.ts';
+import type { FitOptions, FitResult, LinearProblem } from './types.ts';
+
+/** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
+export const DIRECT_MAX_ROWS = 4096;
+/** Band multiplier κ (least-absolute-band.ts): the side proof holds unless χ²_p of the subsample error exceeds κ². */
+export const BAND_KAPPA = 4;
+/** Floor of the subsample size, so that its quantiles and its fit mean something. */
+export const MIN_SUBSAMPLE_ROWS = 512;
+/** Subsample size = this × (p·n)^(2/3) (Portnoy & Koenker's order; the factor tuned on the benchmark). */
+export const SUBSAMPLE_FACTOR = 1;
+/** A warm refit samples this many rows, for the frame, the band's shape and the MAD windows. */
+export const WARM_SAMPLE_ROWS = 1024;
+/** A warm refit keeps about this many rows per parameter around the previous fit. */
+export const WARM_KEPT_ROWS = 32;
+/** Screening rounds before giving up (the band doubles each time: 2¹² of the first width). */
+export const MAX_SCREEN_ROUNDS = 12;
+/** Beyond this fraction kept, screening does not pay: solve all rows directly. */
+export const MAX_KEPT_FRACTION = 0.5;
+/**
+ * Rows the rounding bounds are scaled to: the largest sampled row magnitude times this. A row
+ * more than 2¹⁰× larger than every sampled row, with a residual at rounding level, could be
+ * given the side of its rounding — an error in the objective of the order of that rounding.
+ */
+export const ZERO_GUARD_FACTOR = 2 ** 10;
+/** The MAD windows' margin is the band's move bound at this multiple of the largest sampled leverage. */
+export const LEVERAGE_MARGIN_FACTOR = 4;
+/**
+ * Pivots allowed per descent: Barrodale–Roberts counts grow like a small multiple of p·log m; on
+ * the benchmark data the worst seen (bench/quick-exact.ts prints them) is far below this.
+ */
+export function descentCap(m: number, p: number): number {
+  return 64 + 16 * p * Math.ceil(Math.log2(m + 2));
+}
+
+/** √(π/2): a band ±δ holds a fraction δ·√(2/π)/σ of normal residuals near zero. */
+const SQRT_HALF_PI = Math.sqrt(Math.PI / 2);
+
+interface Context {
+  problem: LinearProblem;
+  iterations: number;
+  cap: number | undefined;
+  notes: string[];
+}
+
+interface Seed {
+  beta: Float64Array;
+  basis: Int32Array | null;
+  band: Band;
+  how: string;
+}
+
+export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {}): FitResult {
+  assertProblemShape(problem);
+  const { n, p } = problem;
+  if (n < p) return unsolved('least-absolute', problem, 'too-few-rows', `${n} rows for ${p} parameters: least absolute deviations needs n ≥ p`);
+  const warm = vetWarmStart(problem, options.warmStart, p);
+  const ctx: Context = { problem, iterations: 0, cap: options.maxIterations, notes: warm.note ? [warm.note] : [] };
+  const screened = n > DIRECT_MAX_ROWS;
+  const m0 = !screened ? n : warm.coefficients ? Math.min(n, WARM_SAMPLE_ROWS)
+    : Math.min(n, Math.max(MIN_SUBSAMPLE_ROWS, Math.round(SUBSAMPLE_FACTOR * (p * n) ** (2 / 3))));
+  const sample = systematicSample(n, m0);
+  const base = buildFrame(problem, sample, m0, new Float64Array(p));
+  const beta0 = warm.coefficients ?? rawCoefficients(base, leastSquaresStart(gatherRows(problem, base, sample, m0, new Float64Array(p))));
+  const frame = withReference(base, beta0);
+  if (!screened) return direct(ctx, frame, sample, warm.basis, 'all rows to the vertex descent');
+
+  const sub = gatherRows(problem, frame, sample, m0, new Float64Array(p));
+  const seeded = warm.coefficients ? warmSeed(problem, frame, sub, warm.coefficients, warm.basis, warm.scale) : subsampleSeed(ctx, frame, sub, sample);
+  if ('status' in seeded) return seeded;
+  let { beta, basis, band } = seeded;
+  const magnitude = rowMagnitude(problem, sample, beta);
+  band = withRoundingFloor(band, 8 * (p + 1) * Number.EPSILON * ZERO_GUARD_FACTOR * magnitude);
+
+  for (let round = 1; round <= MAX_SCREEN_ROUNDS; round++) {
+    const roundFrame = withReference(frame, beta);
+    // MAD windows planned from the sample's residuals at β (the sample rows are already in `sub`).
+    const gamma = frameCoefficients(frame, beta);
+    const sampleRho = residualsAt(sub, gamma);
+    let maxLev = 0;
+    for (let i = 0; i < sub.m; i++) maxLev = Math.max(maxLev, leverage(sub.A, i, p, band.frameQ));
+    const windows = planShiftedScale(sampleRho, sub.m, n, Math.sqrt(band.scale * LEVERAGE_MARGIN_FACTOR * maxLev));
+    const screen = screenRows(problem, beta, band, windows, Math.ceil(2 * n * Math.min(1, BAND_KAPPA * Math.sqrt(p / m0))) + 64);
+    if (screen.keptCount > MAX_KEPT_FRACTION * n) return direct(ctx, frame, sample, basis, `band kept ${screen.keptCount} of ${n} rows`);
+    const cp = keptCompact(roundFrame, screen);
+    const start: DescentStart = { gamma: new Float64Array(p) };
+    const startBasis = basis ? positionsIn(basis, screen.kept, screen.keptCount) : null;
+    if (startBasis) start.basis = startBasis;
+    const res = descendLeastAbsolute(cp, start, ctx.cap ?? descentCap(cp.m, p));
+    ctx.iterations += res.iterations;
+    if (res.status === 'degenerate-direction') return rankOrDirect(ctx, frame, sample, 'the kept rows span fewer than p directions');
+    if (res.status === 'unbounded') {
+      // Pinned rows on the wrong side left the small problem without a minimum: widen.
+      band = widen(band);
+      continue;
+    }
+    const betaStar = rawCoefficients(roundFrame, res.gamma);
+    const basisRows = res.basis.map((k) => screen.kept[k]);
+    const detail = `${seeded.how}; band ±${bandHalfWidth(band, p).toPrecision(3)} (at an average row) kept ${screen.keptCount} rows, ` +
+      `pinned ${screen.above} above and ${screen.below} below` + (round > 1 ? `; ${round} rounds` : '');
+    const proof = proveByBand(problem, roundFrame, band, cp, res, screen);
+    if (proof.ok || res.status === 'iteration-cap') {
+      return finishProven(ctx, problem, betaStar, basisRows, beta, screen, res, proof, windows,
+        res.status === 'iteration-cap' ? `descent stopped at its iteration cap; ${detail}` : detail);
+    }
+    // No proof from the band: certify on all rows (slower, conclusive).
+    const cand = evaluate(ctx, betaStar, basisRows, sample, sideInScreen(problem, beta, screen, res.sign));
+    if (cand.cert.ok) return finish(ctx, cand, `${detail}; ${proof.reason}, so certified by a full pass`);
+    beta = betaStar;
+    basis = basisRows;
+    band = widen(band);
+  }
+  return direct(ctx, frame, sample, basis, `no certificate after ${MAX_SCREEN_ROUNDS} screening rounds`);
+}
+
+/** The subsample fit, its vertex and the band around it. */
+function subsampleSeed(ctx: Context, frame: ColumnFrame, sub: CompactLeastAbsolute, sample: Int32Array): Seed | FitResult {
+  const { p } = ctx.problem;
+  const fit = fitSubsample(sub, frame, subsampleOptions(ctx));
+  ctx.iterations += fit.iterations;
+  const res = fit.result;
+  if (res.status === 'degenerate-direction') return rankOrDirect(ctx, frame, sample, 'the subsample spans fewer than p directions');
+  if (res.status !== 'optimal') return direct(ctx, frame, sample, null, `subsample descent ended ${res.status}`);
+  return {
+    beta: rawCoefficients(frame, res.gamma),
+    basis: res.basis.map((k) => sample[k]),
+    band: bandFromSubsample(frame, sub.A, res.residuals, sub.m, Math.min(1, BAND_KAPPA * Math.sqrt(p / sub.m))),
+    how: `subsample of ${sub.m} rows`,
+  };
+}
+
+/** The previous fit and basis, with a band holding ~WARM_KEPT_ROWS·p rows around it. */
+function warmSeed(problem: LinearProblem, frame: ColumnFrame, sub: CompactLeastAbsolute, beta: Float64Array, basis: Int32Array | null, scale: number | null): Seed {
+  const { n, p } = problem;
+  const q = Math.min(1, (WARM_KEPT_ROWS * p) / n);
+  const rho = residualsAt(sub, frameCoefficients(frame, beta));
+  const Q = inverseGram(sub.A, sub.m, p);
+  const sigma = scale ?? madScaleInPlace(Float64Array.from(rho), sub.m);
+  const band = Q && sigma > 0 ? makeBand(frame, Q, sigma * SQRT_HALF_PI * q) : bandFromSubsample(frame, sub.A, rho, sub.m, q);
+  return { beta, basis, band, how: 'warm start' };
+}
+
+/** Largest √wᵢ(|yᵢ| + Σ|xᵢⱼβⱼ|) over the sample: the scale of the rounding bounds. */
+function rowMagnitude(problem: LinearProblem, rows: Int32Array, beta: Float64Array): number {
+  const { p, X, y, weights } = problem;
+  let magnitude = 0;
+  for (let k = 0; k < rows.length; k++) {
+    const i = rows[k];
+    let m = Math.abs(y[i]);
+    for (let j = 0; j < p; j++) m += Math.abs(X[i * p + j] * beta[j]);
+    magnitude = Math.max(magnitude, m * (weights ? Math.sqrt(weights[i]) : 1));
+  }
+  return magnitude;
+}
+
+/** The result once the band proof (or the iteration cap) ended the screened solve. */
+function finishProven(
+  ctx: Context, problem: LinearProblem, beta: Float64Array, basis: Int32Array, betaScreen: Float64Array, screen: FullScreen,
+  res: DescentResult, proof: BandProof, windows: ReturnType<typeof planShiftedScale>, how: string,
+): FitResult {
+  const { n, p, weights } = problem;
+  const residuals = residualPass(problem, beta);
+  // Pinned rows kept their sides: Σ sᵢρᵢ(β*) = Σ|ρᵢ(β_s)| − (Σ sᵢaᵢ)·(β* − β_s), linear in β*.
+  let objective = screen.pinnedAbs;
+  for (let j = 0; j < p; j++) objective -= screen.pinnedSum[j] * (beta[j] - betaScreen[j]);
+  for (let k = 0; k < res.residuals.length; k++) objective += Math.abs(res.residuals[k]);
+  const rhoAt = (i: number): number => (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
+  let scale = windows ? windows.finish(n, Math.sqrt(screen.maxLeverage) * proof.move, rhoAt) : null;
+  if (scale === null) scale = fullScale(problem, residuals);
+  if (!proof.fullRankProved) {
+    const rank = designRank(problem);
+    if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);
+  }
+  const notes = ctx.notes.length ? `; ${ctx.notes.join('; ')}` : '';
+  const rows = Array.from(basis).join(', ');
+  return {
+    estimator: 'least-absolute',
+    status: proof.ok ? 'ok' : 'not-converged',
+    coefficients: beta,
+    residuals,
+    objective,
+    scale,
+    iterations: ctx.iterations,
+    converged: proof.ok,
+    reason: proof.ok ? `exact: the vertex through rows ${rows} is optimal (${proof.reason}); ${how}${notes}`
+      : `not proven optimal: ${proof.reason}; ${how}${notes}`,
+    basis,
+  };
+}
+
+/** All rows to the descent (small n, or a fallback from screening). */
+function direct(ctx: Context, frame: ColumnFrame, sample: Int32Array, basis: Int32Array | null, how: string): FitResult {
+  const { problem } = ctx;
+  const { n, p } = problem;
+  const all = new Int32Array(n);
+  for (let i = 0; i < n; i++) all[i] = i;
+  const start: DescentStart = { gamma: new Float64Array(p) };
+  if (basis) start.basis = basis;
+  const cp = gatherRows(problem, frame, all, n, new Float64Array(p));
+  const res = descendLeastAbsolute(cp, start, ctx.cap ?? descentCap(n, p));
+  ctx.iterations += res.iterations;
+  if (res.status === 'degenerate-direction' || res.status === 'unbounded') {
+    const rank = designRank(problem);
+    if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);
+    return unsolved('least-absolute', problem, 'not-converged', `descent on all rows ended '${res.status}' on a full-rank design`, ctx.iterations);
+  }
+  const sign = res.sign;
+  const cand = evaluate(ctx, rawCoefficients(frame, res.gamma), res.basis, sample, (i) => (sign[i] === 0 ? 1 : sign[i]));
+  return finish(ctx, cand, res.status === 'iteration-cap' ? `descent stopped at its iteration cap; ${how}` : how);
+}
+
+function rankOrDirect(ctx: Context, frame: ColumnFrame, sample: Int32Array, why: string): FitResult {
+  const rank = designRank(ctx.problem);
+  if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);
+  return direct(ctx, frame, sample, null, `${why}; all rows to the vertex descent`);
+}
+
+function rankDeficient(ctx: Context, column: number, pivot: number, threshold: number): FitResult {
+  return unsolved('least-absolute', ctx.problem, 'rank-deficient',
+    `column ${column} is a combination of the others (scaled QR pivot ${pivot.toExponential(2)} ≤ max(n, p)·ε·max pivot = ${threshold.toExponential(2)})`,
+    ctx.iterations);
+}
+
+interface Candidate {
+  beta: Float64Array;
+  basis: Int32Array;
+  pass: FinalPass;
+  cert: Certificate;
+  scale: number;
+}
+
+/** Full final pass + certificate at β with basis rows (raw indices). */
+function evaluate(ctx: Context, beta: Float64Array, basis: Int32Array, sample: Int32Array, side: (row: number) => number): Candidate {
+  const { problem } = ctx;
+  const { n, p, X, y, weights } = problem;
+  const sampleRho = new Float64Array(sample.length);
+  for (let k = 0; k < sample.length; k++) {
+    const i = sample[k];
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    sampleRho[k] = (weights ? Math.sqrt(weights[i]) : 1) * (y[i] - f);
+  }
+  const magnitude = Math.max(rowMagnitude(problem, sample, beta), rowMagnitude(problem, basis, beta));
+  const zeroGuard = ZERO_GUARD_FACTOR * ROW_ZERO_EPS * Number.EPSILON * magnitude;
+  const collector: ScaleCollector | null = planScale(sampleRho, sample.length, n);
+  const pass = finalPass(problem, beta, zeroGuard, collector);
+  const cert = certify(problem, beta, basis, pass, side);
+  const scale = (collector ? collector.finish(n) : null) ?? fullScale(problem, pass.residuals);
+  return { beta, basis, pass, cert, scale };
+}
+
+function finish(ctx: Context, cand: Candidate, how: string): FitResult {
+  const { problem } = ctx;
+  const { cert, pass } = cand;
+  if (!cert.fullRankProved) {
+    const rank = designRank(problem);
+    if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);
+  }
+  const rows = Array.from(cand.basis).join(', ');
+  const notes = ctx.notes.length ? `; ${ctx.notes.join('; ')}` : '';
+  return {
+    estimator: 'least-absolute',
+    status: cert.ok ? 'ok' : 'not-converged',
+    coefficients: cand.beta,
+    residuals: pass.residuals,
+    objective: pass.objective,
+    scale: cand.scale,
+    iterations: ctx.iterations,
+    converged: cert.ok,
+    reason: cert.ok ? `exact: the vertex through rows ${rows} is optimal (${cert.reason}); ${how}${notes}`
+      : `not proven optimal: ${cert.reason}; ${how}${notes}`,
+    basis: cand.basis,
+  };
+}
+
+/** MAD scale of all whitened residuals by direct selection. */
+function fullScale(problem: LinearProblem, residuals: Float64Array): number {
+  const { n, weights } = problem;
+  const all = new Float64Array(n);
+  for (let i = 0; i < n; i++) all[i] = (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
+  return madScaleInPlace(all, n);
+}
+
+/** The side a row was given: its compact side when kept, else its side at the screening fit. */
+function sideInScreen(problem: LinearProblem, beta: Float64Array, screen: FullScreen, sign: Int8Array): (row: number) => number {
+  return (row) => {
+    const at = binarySearch(screen.kept, screen.keptCount, row);
+    if (at >= 0) return sign[at] === 0 ? 1 : sign[at];
+    const { p, X, y } = problem;
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[row * p + j] * beta[j];
+    return y[row] - f >= 0 ? 1 : -1;
+  };
+}
+
+/** The kept rows (copied raw by the screening pass) in the round's frame, with the pinned rows' linear term. */
+function keptCompact(frame: ColumnFrame, screen: FullScreen): CompactLeastAbsolute {
+  const { p, L, betaRef } = frame;
+  const m = screen.keptCount;
+  const { keptX, keptY, keptS } = screen;
+  const A = new Float64Array(m * p);
+  const b = new Float64Array(m);
+  for (let r = 0; r < m; r++) {
+    const s = keptS[r];
+    let f = 0;
+    for (let j = 0; j < p; j++) f += keptX[r * p + j] * betaRef[j];
+    b[r] = s * (keptY[r] - f);
+    for (let k = 0; k < p; k++) {
+      let t = 0;
+      for (let j = 0; j < p; j++) t += keptX[r * p + j] * L[j * p + k];
+      A[r * p + k] = s * t;
+    }
+  }
+  const c = frameVector(frame, screen.pinnedSum).map((v) => -v);
+  return { m, p, A, b, c };
+}
+
+function gatherRows(problem: LinearProblem, frame: ColumnFrame, rows: Int32Array, count: number, c: Float64Array): CompactLeastAbsolute {
+  const { p } = problem;
+  const A = new Float64Array(count * p);
+  const b = new Float64Array(count);
+  gatherFrameRows(problem, frame, rows, count, A, b);
+  return { m: count, p, A, b, c };
+}
+
+function subsampleOptions(ctx: Context): SubsampleOptions {
+  const fixed = ctx.cap;
+  return { directMaxRows: DIRECT_MAX_ROWS, kappa: BAND_KAPPA, minRows: MIN_SUBSAMPLE_ROWS, cap: (m, p) => fixed ?? descentCap(m, p) };
+}
+
+function residualsAt(cp: CompactLeastAbsolute, gamma: Float64Array): Float64Array {
+  const { m, p, A, b } = cp;
+  const out = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    let f = 0;
+    for (let j = 0; j < p; j++) f += A[i * p + j] * gamma[j];
+    out[i] = b[i] - f;
+  }
+  return out;
+}
+
+function withReference(frame: ColumnFrame, beta: Float64Array): ColumnFrame {
+  return { p: frame.p, L: frame.L, betaRef: Float64Array.from(beta), intercept: frame.intercept };
+}
