@@ -98,6 +98,18 @@ describe('SyncClient', () => {
     expect(b.store.records('cmp-c').get('latitudeReading/r1')?.record).toEqual(latitudeRecord('r1'));
   });
 
+  it('regression (sync-now lost at the end of a cycle): back-to-back syncNow calls all resolve', async () => {
+    // Defect: a syncNow whose caller awaited the previous one started while the old loop was
+    // still marked running, so it only set "again" on a loop that had already ended and never resolved.
+    const r = await rig({ 'dev-a': 'observer' });
+    const a = device(r, 'dev-a');
+    for (let i = 0; i < 10; i++) {
+      a.store.edit('cmp-c', 'latitudeReading', `r${i}`, 'put', latitudeRecord(`r${i}`));
+      expect((await a.client.syncNow()).unsynced).toBe(0);
+    }
+    expect(await r.storage.countChanges('cmp-c')).toBe(10);
+  });
+
   it('times out a request that never answers, and says offline', async () => {
     const r = await rig({ 'dev-a': 'observer' });
     const hang: typeof fetch = (_u, init) => new Promise((_res, rej) => init?.signal?.addEventListener('abort', () => rej(new DOMException('aborted', 'AbortError'))));
