@@ -3,14 +3,20 @@
 // and issue a token from the server machine (for a lead who lost theirs).
 import { existsSync } from 'node:fs';
 import { parseArgs } from 'node:util';
+import { RECORD_SCHEMAS } from '../campaign/records.ts';
 import { InputError } from '../errors.ts';
 import { createCampaign } from '../server/create-campaign.ts';
 import { createServer, DEFAULT_LIMITS } from '../server/create-server.ts';
 import { DEFAULT_DATABASE, describeDatabase, openStorage } from '../server/open-storage.ts';
 import type { SyncStorage } from '../server/storage.ts';
+import type { RecordSchemas } from '../server/validate-change.ts';
+import { CampaignRecordSchema } from '../store/campaign-record.ts';
 import { issueTokenOffline } from './token-issue.ts';
 
 export const DEFAULT_PORT = 8765;
+
+/** Every record kind the app syncs, the campaign record included (its schema lives with the device store). */
+export const SERVER_RECORD_SCHEMAS: RecordSchemas = { ...RECORD_SCHEMAS, campaign: CampaignRecordSchema };
 
 const USAGE = `usage: arcfield serve [options]
 
@@ -115,7 +121,7 @@ export async function run(argv: readonly string[]): Promise<number> {
     return fail(new InputError('--static', values.static, 'no such folder (build the app with `npm run build`)'));
   }
   const app = await createServer({
-    storage, staticDir, minClientVersion: values['min-client-version'] ?? '0.0.0', logger: values.log === true,
+    storage, staticDir, recordSchemas: SERVER_RECORD_SCHEMAS, minClientVersion: values['min-client-version'] ?? '0.0.0', logger: values.log === true,
     limits: { perToken: { perSecond, burst: Math.max(1, Math.round(6 * perSecond)) } },
   });
   try {

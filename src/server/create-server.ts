@@ -13,6 +13,7 @@ import type { SyncStorage } from './storage.ts';
 import { registerSyncRoutes } from './sync-routes.ts';
 import { TokenBuckets, type BucketLimits } from './token-bucket.ts';
 import { registerTokenRoutes } from './token-routes.ts';
+import type { RecordSchemas } from './validate-change.ts';
 
 export interface ServerLimits {
   /** Largest request body in bytes (a full push batch of ordinary readings is far below it). */
@@ -41,6 +42,11 @@ export interface ServerOptions {
   minClientVersion?: string;
   corsOrigins?: readonly string[];
   logger?: boolean;
+  /**
+   * Record schemas the push accepts (default RECORD_SCHEMAS). `arcfield serve` adds the campaign
+   * record's schema from the device store, which the server layer may not import itself.
+   */
+  recordSchemas?: RecordSchemas;
   testHooks?: ServerContext['testHooks'];
 }
 
@@ -61,6 +67,7 @@ export async function createServer(opts: ServerOptions): Promise<FastifyInstance
     storage: opts.storage,
     now,
     minClientVersion: opts.minClientVersion ?? '0.0.0',
+    recordSchemas: opts.recordSchemas,
     auth: (req) => authenticate(req, opts.storage, { perToken, failures }),
     testHooks: opts.testHooks,
   };

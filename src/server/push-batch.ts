@@ -9,13 +9,15 @@ import { mergeChange, versionOf, type MergeDecision } from '../sync/merge.ts';
 import { FAR_FUTURE_MS, type Change, type CrewRole } from '../sync/protocol.ts';
 import type { MergeOutcome, PushResult } from '../sync/wire.ts';
 import type { PushTx, StoredChange, SyncStorage } from './storage.ts';
-import { checkChange } from './validate-change.ts';
+import { checkChange, type RecordSchemas } from './validate-change.ts';
 
 export interface PushContext {
   campaignId: string;
   role: CrewRole;
   /** Server clock (injected for tests). */
   now: () => number;
+  /** Record schemas (default: RECORD_SCHEMAS of src/campaign/records.ts). */
+  recordSchemas?: RecordSchemas;
   /** Test hook: called after each change is applied inside the transaction (a throw = a crash mid-batch). */
   duringPush?: (index: number) => void;
 }
@@ -39,7 +41,7 @@ function ackOf(c: StoredChange, duplicate: boolean): PushResult {
 }
 
 export async function pushBatch(storage: SyncStorage, ctx: PushContext, rawChanges: readonly unknown[]): Promise<PushResult[]> {
-  const checked = rawChanges.map((raw, i) => checkChange(raw, i, ctx.role));
+  const checked = rawChanges.map((raw, i) => checkChange(raw, i, ctx.role, ctx.recordSchemas));
   return storage.pushTransaction(async (tx) => {
     const campaign = await tx.lockCampaign(ctx.campaignId);
     if (!campaign) throw new CampaignNotFoundError(ctx.campaignId);

@@ -64,7 +64,7 @@ export function registerSyncRoutes(app: FastifyInstance, ctx: ServerContext): vo
     if (token.deviceId === null && !(await ctx.storage.bindTokenDevice(token.id, body.deviceId))) {
       throw new HttpError(403, 'device-taken', 'another live token of this campaign is bound to this device id');
     }
-    const results = await pushBatch(ctx.storage, { campaignId, role: token.role, now: ctx.now, duringPush: ctx.testHooks?.duringPush }, body.changes);
+    const results = await pushBatch(ctx.storage, { campaignId, role: token.role, now: ctx.now, recordSchemas: ctx.recordSchemas, duringPush: ctx.testHooks?.duringPush }, body.changes);
     return { protocolVersion: PROTOCOL_VERSION, results, serverTime: iso() };
   });
 

@@ -18,9 +18,9 @@ const WRITABLE: Record<CrewRole, ReadonlySet<RecordKind>> = {
   viewer: new Set(),
 };
 
-function schemaFor(kind: RecordKind): ZodType | undefined {
-  return (RECORD_SCHEMAS as Partial<Record<RecordKind, ZodType>>)[kind];
-}
+/** Schema of each record kind the server accepts; the caller may add kinds (serve adds `campaign`). */
+export type RecordSchemas = Partial<Record<RecordKind, ZodType>>;
+export const DEFAULT_RECORD_SCHEMAS: RecordSchemas = RECORD_SCHEMAS;
 
 const pathOf = (path: readonly PropertyKey[]) => path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');
 
@@ -34,7 +34,7 @@ export function canonicalJson(v: unknown): string {
   return JSON.stringify(v);
 }
 
-export function checkChange(raw: unknown, index: number, role: CrewRole): Checked {
+export function checkChange(raw: unknown, index: number, role: CrewRole, schemas: RecordSchemas = DEFAULT_RECORD_SCHEMAS): Checked {
   const label = `changes[${index}]`;
   const idOf = (): string => {
     const id = (raw as { changeId?: unknown } | null)?.changeId;
@@ -50,11 +50,12 @@ export function checkChange(raw: unknown, index: number, role: CrewRole): Checke
   const change: Change = env.data;
   if (!WRITABLE[role].has(change.recordKind)) return reject(`${label}.recordKind`, `a ${role} token may not write ${change.recordKind} records`);
   if (change.resolves && role !== 'lead') return reject(`${label}.resolves`, 'only a lead may resolve conflicts');
+  if (change.recordKind === 'campaign' && change.recordId !== change.campaignId) return reject(`${label}.recordId`, 'the campaign record has the campaign id');
 
   if (change.op === 'delete') {
     if (change.record !== null) return reject(`${label}.record`, 'a delete carries no record (null)');
   } else {
-    const schema = schemaFor(change.recordKind);
+    const schema = schemas[change.recordKind];
     if (!schema) return reject(`${label}.recordKind`, `this server has no schema for ${change.recordKind} records`);
     if (change.record === null || typeof change.record !== 'object' || Array.isArray(change.record)) {
       return reject(`${label}.record`, 'a put carries the whole record as an object');
