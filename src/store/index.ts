@@ -24,3 +24,4 @@ export {
 export { readSetting, writeSetting, saveDraft, loadDraft, clearDraft, DRAFT_PREFIX } from './local-settings.ts';
 export { validateRecord } from './validate-record.ts';
 export { DexieSyncStore, toWireChange, SETTING_CURSOR_PREFIX } from './dexie-sync-store.ts';
+export { CampaignMirror, lastChangeSeq, type MirrorRefresh } from './campaign-mirror.ts';

@@ -11,15 +11,20 @@ export function LiveFitStrip({ campaignId }: { campaignId: string }) {
   if (fit.phase === 'failed') text = fit.error ?? 'The fit failed.';
   else if (r && r.figure) text = `a = ${r.figure.semiMajorAxisM.toFixed(0)} m · 1/f = ${r.figure.inverseFlattening.toFixed(2)}`;
   else if (r) text = r.statusMessage;
+  // The data-* attributes sit on a plain element: React 19 may set changed props of a custom element
+  // (ion-item) as properties rather than attributes, so they would go stale in the DOM.
   return (
-    <IonItem button detail routerLink={`/campaigns/${campaignId}/fit`} lines="full"
-      data-testid="fit-strip" data-phase={fit.phase} data-arc-count={fit.arcReadingCount} data-latitude-count={fit.latitudeReadingCount}
-      data-updated={fit.updatedAtMs ?? 0}>
-      <IonLabel>
-        <h2>Live fit{fit.phase === 'solving' ? ' (updating…)' : ''}</h2>
-        <p>{text}</p>
-      </IonLabel>
-      {suspects > 0 && <IonNote slot="end" className="af-suspect">{suspects} suspect{suspects === 1 ? '' : 's'}</IonNote>}
-    </IonItem>
+    <div data-testid="fit-strip" data-phase={fit.phase} data-arc-count={String(fit.arcReadingCount)}
+      data-latitude-count={String(fit.latitudeReadingCount)} data-updated={String(fit.updatedAtMs ?? 0)}
+      data-solve-ms={fit.solveMs === null ? '' : fit.solveMs.toFixed(1)} data-change-ms={fit.changeToResultMs === null ? '' : fit.changeToResultMs.toFixed(1)}
+      data-read-ms={fit.readMs === null ? '' : fit.readMs.toFixed(1)}>
+      <IonItem button detail routerLink={`/campaigns/${campaignId}/fit`} lines="full">
+        <IonLabel>
+          <h2>Live fit{fit.phase === 'solving' ? ' (updating…)' : ''}</h2>
+          <p>{text}</p>
+        </IonLabel>
+        {suspects > 0 && <IonNote slot="end" className="af-suspect">{suspects} suspect{suspects === 1 ? '' : 's'}</IonNote>}
+      </IonItem>
+    </div>
   );
 }

@@ -1,11 +1,12 @@
 // One running fit per open campaign, shared by every screen that shows it (Ionic keeps earlier
-// pages mounted, so per-page solving would repeat the work). The hub watches the campaign's
-// records with a Dexie liveQuery; each change sends one solve to the worker (latest wins there),
-// and a result is shown only if it is newer than the one on screen.
+// pages mounted, so per-page solving would repeat the work). The hub watches the campaign's change
+// log with a Dexie liveQuery and keeps an incremental copy of its records; each change sends one
+// solve to the worker (latest wins there), and a result is shown only if it is newer than the one
+// on screen.
 import { liveQuery, type Subscription } from 'dexie';
 import type { CampaignRecords } from '../../campaign/records.ts';
 import type { CampaignResult } from '../../campaign/result.ts';
-import { loadCampaignRecords, type ArcfieldDb } from '../../store/index.ts';
+import { CampaignMirror, lastChangeSeq, type ArcfieldDb } from '../../store/index.ts';
 import type { FitChartData, SolveClient } from '../../worker/index.ts';
 import { solveOptionsFor, type AppSettings } from '../settings/app-settings.ts';
 
@@ -19,6 +20,8 @@ export interface LiveFit {
   arcReadingCount: number;
   error: string | null;
   solveMs: number | null;
+  /** Time to read the campaign's records for this answer, ms. */
+  readMs: number | null;
   /** Time from the store change to the answer on screen, ms. */
   changeToResultMs: number | null;
   updatedAtMs: number | null;
@@ -26,7 +29,7 @@ export interface LiveFit {
 
 const INITIAL: LiveFit = {
   phase: 'waiting', result: null, chart: null, latitudeReadingCount: 0, arcReadingCount: 0, error: null,
-  solveMs: null, changeToResultMs: null, updatedAtMs: null,
+  solveMs: null, readMs: null, changeToResultMs: null, updatedAtMs: null,
 };
 
 interface Entry {
@@ -35,6 +38,7 @@ interface Entry {
   sub: Subscription | null;
   lastRecords: CampaignRecords | null;
   shownRequest: number;
+  mirror?: CampaignMirror;
 }
 
 export class LiveFitHub {
@@ -70,19 +74,27 @@ export class LiveFitHub {
   }
 
   private watch(campaignId: string, entry: Entry): void {
-    const records = liveQuery(async () => ({ records: await loadCampaignRecords(this.db, campaignId) }));
-    entry.sub = records.subscribe({
-      next: ({ records: recs }) => {
-        const at = this.now();
-        if (!recs) { this.set(entry, { ...INITIAL, phase: 'missing' }); return; }
-        entry.lastRecords = recs;
-        void this.solve(campaignId, entry, recs, at);
+    // Observe only the campaign's change-log position (cheap); the mirror then reads just the
+    // records that moved (src/store/campaign-mirror.ts) instead of all of them after every save.
+    const mirror = entry.mirror ?? new CampaignMirror(this.db, campaignId);
+    entry.mirror = mirror;
+    entry.sub = liveQuery(() => lastChangeSeq(this.db, campaignId)).subscribe({
+      next: () => {
+        const changedAt = this.now();
+        mirror.refresh().then(({ records, changed }) => {
+          if (!records) { this.set(entry, { ...INITIAL, phase: 'missing' }); return; }
+          if (!changed && entry.lastRecords) return;
+          entry.lastRecords = records;
+          return this.solve(campaignId, entry, records, changedAt);
+        }).catch((err: unknown) => this.set(entry, { ...entry.state, phase: 'failed', error: `Could not read the campaign: ${err instanceof Error ? err.message : String(err)}` }));
       },
       error: (err: unknown) => this.set(entry, { ...entry.state, phase: 'failed', error: `Could not read the campaign: ${err instanceof Error ? err.message : String(err)}` }),
     });
   }
 
+  /** `changedAt`: when the store's change notification arrived (the read of what moved starts then). */
   private async solve(campaignId: string, entry: Entry, records: CampaignRecords, changedAt: number): Promise<void> {
+    const readMs = this.now() - changedAt;
     this.set(entry, { ...entry.state, phase: 'solving' });
     const outcome = await this.solver.solve(campaignId, records, solveOptionsFor(this.settings, records.settings));
     if (outcome.status === 'superseded' || outcome.requestId < entry.shownRequest) return;
@@ -94,7 +106,7 @@ export class LiveFitHub {
     this.set(entry, {
       phase: 'solved', result: outcome.result, chart: outcome.chart, error: null,
       latitudeReadingCount: records.latitudeReadings.length, arcReadingCount: records.arcReadings.length,
-      solveMs: outcome.solveMs, changeToResultMs: this.now() - changedAt, updatedAtMs: Date.now(),
+      solveMs: outcome.solveMs, readMs, changeToResultMs: this.now() - changedAt, updatedAtMs: Date.now(),
     });
   }
 
