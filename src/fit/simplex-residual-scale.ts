@@ -51,6 +51,12 @@ export class ScaleCollector {
     this.madBuf[this.madCount++] = rho;
   }
 
+  /** Makes room for `more` values after the given counts in both buffers. */
+  ensureRoom(medCount: number, madCount: number, more: number): void {
+    while (this.medBuf.length < medCount + more) this.medBuf = grow(this.medBuf);
+    while (this.madBuf.length < madCount + more) this.madBuf = grow(this.madBuf);
+  }
+
   /**
    * The exact MAD scale of the n values fed, or null when a window missed (then select directly).
    * Median: ranks k₁ = ⌊(n−1)/2⌋, k₂ = ⌊n/2⌋ must fall inside the kept values. MAD: the kept
@@ -233,3 +239,73 @@ function growInt(buf: Int32Array): Int32Array {
   next.set(buf);
   return next;
 }
+
+/** Rows sampled (at a constant stride) to plan the windows of `madScaleOfResiduals`: each window then holds ≈ 2·WINDOW_Z·0.5/√this ≈ 5 % of the rows. */
+export const SCALE_SAMPLE_ROWS = 16384;
+
+/**
+ * The MAD scale of the whitened residuals √wᵢ·rᵢ of a finished fit, from its raw residuals: the
+ * windows are planned from a systematic sample of the residuals, one branch-free counting pass
+ * over the residual array keeps the values inside them, and a missed window falls back to
+ * selecting among all n values. Exact either way.
+ */
+export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Array | undefined): number {
+  const n = residuals.length;
+  if (n > DIRECT_SCALE_MAX_ROWS) {
+    const count = Math.min(n, SCALE_SAMPLE_ROWS);
+    const sample = new Float64Array(count);
+    const stride = n / count;
+    for (let k = 0; k < count; k++) {
+      const i = Math.floor(k * stride);
+      sample[k] = (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
+    }
+    const col = planScale(sample, count, n);
+    if (col) {
+      countWindows(residuals, weights, col);
+      const scale = col.finish(n);
+      if (scale !== null) return scale;
+    }
+  }
+  const all = new Float64Array(n);
+  for (let i = 0; i < n; i++) all[i] = (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
+  return madScaleInPlace(all, n);
+}
+
+/**
+ * The counting pass of `madScaleOfResiduals`, branch-free: every value is written at the end of
+ * both buffers and the ends advance by the 0/1 window tests (a branch on them would mispredict
+ * for the ~10 % of rows inside a window, at random). Room for a whole chunk is made before it.
+ */
+function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector): void {
+  const n = residuals.length;
+  const { medLo, medHi, centre, madLo, madHi } = col;
+  let medBelow = 0;
+  let madBelow = 0;
+  let mc = col.medCount;
+  let ac = col.madCount;
+  for (let from = 0; from < n; from += COUNT_CHUNK) {
+    const to = Math.min(n, from + COUNT_CHUNK);
+    col.ensureRoom(mc, ac, to - from);
+    const med = col.medBuf;
+    const mad = col.madBuf;
+    for (let i = from; i < to; i++) {
+      const rho = weights ? Math.sqrt(weights[i]) * residuals[i] : residuals[i];
+      const belowMed = +(rho <= medLo);
+      medBelow += belowMed;
+      const am = Math.abs(rho - centre);
+      const belowMad = +(am <= madLo);
+      madBelow += belowMad;
+      med[mc] = rho;
+      mc += +(rho < medHi) - belowMed;
+      mad[ac] = rho;
+      ac += +(am < madHi) - belowMad;
+    }
+  }
+  col.medCount = mc;
+  col.madCount = ac;
+  col.medBelow = medBelow;
+  col.madBelow = madBelow;
+}
+
+/** Rows between capacity checks of the branch-free counting pass. */
+const COUNT_CHUNK = 4096;
