@@ -33,6 +33,8 @@ async function boot(rootEl: HTMLElement): Promise<void> {
     root.render(<main style={{ padding: 16 }}><h1>arcfield cannot open its storage</h1><p>{e.reason}</p><p>({e.causeName})</p></main>);
     return;
   }
+  // A newer version opened in another tab: Dexie closes this connection; say so.
+  store.db.on('versionchange', () => { updates.databaseReplaced(); });
   const settings = readAppSettings(await readSetting(store.db, SETTING_APP));
   setupIonicReact({ animated: animationsWanted(settings.reduceMotion) });
   const solver = new SolveClient();

@@ -8,6 +8,16 @@ export function UpdatePrompt() {
   const { updates } = useServices();
   const [state, setState] = useState(updates.current);
   useEffect(() => updates.subscribe(setState), [updates]);
+  if (state.databaseReplaced) {
+    return (
+      <IonToolbar color="warning" data-testid="database-replaced" role="alert">
+        <div style={{ padding: '8px 12px' }}>
+          arcfield was updated in another tab. Reload this tab to keep working; your drafts are kept.
+          <div style={{ marginTop: 6 }}><IonButton color="light" onClick={() => window.location.reload()}>Reload</IonButton></div>
+        </div>
+      </IonToolbar>
+    );
+  }
   if (!state.needReload) return null;
   return (
     <IonToolbar color="warning" data-testid="update-prompt" role="status">

@@ -6,6 +6,7 @@ import {
   IonSelectOption, IonTitle, IonToolbar,
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
+import { useState } from 'react';
 import { useNavigate, useParams } from 'react-router-dom';
 import { LENGTH_UNIT_IDS, type LengthUnitId } from '../../campaign/records.ts';
 import { fromMetres, toMetres } from '../../geodesy/index.ts';
@@ -36,6 +37,7 @@ function ArcForm({ cid, row }: { cid: string; row: ArcReadingRow | null }) {
   const stations = useLiveQuery(() => stationsOf(store.db, cid), [store, cid]);
   const save = useSaveState();
   const remove = useSaveState();
+  const [persistError, setPersistError] = useState<string | null>(null);
   const draft = useDraft<ArcDraft>(`arc:${cid}:${row?.id ?? 'new'}`, initialDraft(row, settings.lengthUnit));
   const d = draft.value;
   const unit = UNIT_LABEL[d.unit];
@@ -60,7 +62,7 @@ function ArcForm({ cid, row }: { cid: string; row: ArcReadingRow | null }) {
       ...(d.method.trim() ? { method: d.method.trim() } : {}),
     }));
     if (!saved) return;
-    void requestPersistenceOnce(store.db, storage).catch(() => undefined);
+    void requestPersistenceOnce(store.db, storage).catch((err: unknown) => setPersistError(`Could not ask for protected storage: ${err instanceof Error ? err.message : String(err)}`));
     if (row) await draft.reset(initialDraft(saved, d.unit));
     else await draft.reset({ ...initialDraft(null, d.unit), from: d.to, sigma: d.sigma });
   };
@@ -124,6 +126,7 @@ function ArcForm({ cid, row }: { cid: string; row: ArcReadingRow | null }) {
       </div>
       <SaveStatus state={save.state} />
       {draft.writeError && <p className="af-error">{draft.writeError}</p>}
+      {persistError && <p className="af-error">{persistError}</p>}
       {verdict?.hint && <p className={verdict.suspect ? 'af-suspect af-hint' : 'af-hint'}>{verdict.hint}</p>}
       {row && (
         <div className="af-actions af-one">

@@ -7,6 +7,7 @@ import {
   IonSegment, IonSegmentButton, IonSelect, IonSelectOption, IonTitle, IonToolbar,
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
+import { useState } from 'react';
 import { useLocation, useNavigate, useParams } from 'react-router-dom';
 import type { GnssFix, LatitudeKind, LatitudeReading } from '../../campaign/records.ts';
 import { formatDecimalDeg } from '../../geodesy/index.ts';
@@ -43,6 +44,7 @@ function LatitudeForm({ cid, row, station }: { cid: string; row: LatitudeReading
   const stations = useLiveQuery(() => stationsOf(store.db, cid), [store, cid]);
   const save = useSaveState();
   const remove = useSaveState();
+  const [persistError, setPersistError] = useState<string | null>(null);
   const draft = useDraft<LatitudeDraft>(`latitude:${cid}:${row?.id ?? 'new'}`, initialDraft(row, station));
   const d = draft.value;
   const angle = readAngleEntry(d.text);
@@ -65,7 +67,7 @@ function LatitudeForm({ cid, row, station }: { cid: string; row: LatitudeReading
     const saved = await save.run(`${d.kind} latitude at ${d.station} (${angle.sexagesimal})`, () => store.saveLatitudeReading(cid, input, d.rawFixIds));
     if (!saved) return;
     // Ask for protected storage with the first saved reading (field-traps R-1.3).
-    void requestPersistenceOnce(store.db, storage).catch(() => undefined);
+    void requestPersistenceOnce(store.db, storage).catch((err: unknown) => setPersistError(`Could not ask for protected storage: ${err instanceof Error ? err.message : String(err)}`));
     if (row) await draft.reset(initialDraft(saved, d.station));
     else await draft.reset({ ...initialDraft(null, d.station), kind: d.kind, sigma: d.kind === 'astronomic' ? d.sigma : '', observedAt: toLocalInput(Date.now()) });
   };
@@ -130,6 +132,7 @@ function LatitudeForm({ cid, row, station }: { cid: string; row: LatitudeReading
       </div>
       <SaveStatus state={save.state} />
       {draft.writeError && <p className="af-error">{draft.writeError}</p>}
+      {persistError && <p className="af-error">{persistError}</p>}
       {verdict?.hint && <p className={verdict.suspect ? 'af-suspect af-hint' : 'af-hint'}>{verdict.hint}</p>}
       <GnssCapturePanel campaignId={cid} onUse={onGnss} />
       {row && (

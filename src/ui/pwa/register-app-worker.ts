@@ -19,12 +19,14 @@ export interface UpdateState {
   disabled: boolean;
   /** Why the last check for a new version failed (usually: no connection), or null. */
   lastCheckError: string | null;
+  /** Another tab opened a newer database version; this tab closed its connection. */
+  databaseReplaced: boolean;
 }
 
 type Listener = (s: UpdateState) => void;
 
 export class AppUpdates {
-  private state: UpdateState = { needReload: false, offlineReady: false, error: null, disabled: false, lastCheckError: null };
+  private state: UpdateState = { needReload: false, offlineReady: false, error: null, disabled: false, lastCheckError: null, databaseReplaced: false };
   private listeners = new Set<Listener>();
   private applyUpdate: ((reload?: boolean) => Promise<void>) | null = null;
 
@@ -77,6 +79,11 @@ export class AppUpdates {
     }
     navigator.serviceWorker.addEventListener('controllerchange', () => window.location.reload(), { once: true });
     await this.applyUpdate?.(true);
+  }
+
+  /** The store's connection was closed for a newer version in another tab: ask for a reload. */
+  databaseReplaced(): void {
+    this.set({ databaseReplaced: true });
   }
 
   dismiss(): void {
