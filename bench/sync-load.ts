@@ -149,6 +149,7 @@ async function main(): Promise<void> {
       }
     }));
     const pushS = (performance.now() - pushStart) / 1000;
+    console.log(`push: ${TOTAL} readings in ${pushS.toFixed(2)} s = ${(TOTAL / pushS).toFixed(0)} readings/s, ${(latencies.push.length / pushS).toFixed(1)} requests/s; latency ${fmt(latencies.push)}`);
 
     // Phase 2: every device pulls everything with the real sync client (session check + pages).
     const pullStart = performance.now();
@@ -168,7 +169,6 @@ async function main(): Promise<void> {
     let devicesExact = 0;
     for (const { s } of stores) if (s.pulled === TOTAL && s.seen.every((n) => n === 1)) devicesExact += 1;
 
-    console.log(`push: ${TOTAL} readings in ${pushS.toFixed(2)} s = ${(TOTAL / pushS).toFixed(0)} readings/s, ${(latencies.push.length / pushS).toFixed(1)} requests/s; latency ${fmt(latencies.push)}`);
     console.log(`pull: ${DEVICES} devices × ${TOTAL} = ${DEVICES * TOTAL} deliveries in ${pullS.toFixed(2)} s = ${((DEVICES * TOTAL) / pullS).toFixed(0)} changes/s; page latency (${PAGE}/page) ${fmt(latencies.pull)}; session ${fmt(latencies.session)}`);
     const ok = row.n === TOTAL && row.ids === TOTAL && row.top === TOTAL && recs === TOTAL && devicesExact === DEVICES;
     console.log(`count check: server ${row.n} changes, ${row.ids} distinct readings, last sequence ${row.top}, ${recs} live records; ` +
