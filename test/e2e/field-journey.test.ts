@@ -91,6 +91,11 @@ async function journey(page: Page, errors: string[]): Promise<void> {
     await byTestId(page, 'build-id').waitFor();
     expect((await byTestId(page, 'build-id').textContent())?.length).toBeGreaterThan(3);
     await byTestId(page, 'offline-ready').getByText('yes').waitFor();
+    // Installable: Chromium's own installability check finds nothing missing.
+    const cdp = await context.newCDPSession(page);
+    const installability = await cdp.send('Page.getInstallabilityErrors') as { installabilityErrors: { errorId: string }[] };
+    expect(installability.installabilityErrors.map((e) => e.errorId)).toEqual([]);
+    await cdp.detach();
     // GNSS gates for a short test capture (3 fixes over 2 s instead of 5 over 10 s).
     await fill(page, 'setting-gnss-fixes', '3');
     await fill(page, 'setting-gnss-span', '2');
@@ -156,6 +161,17 @@ async function journey(page: Page, errors: string[]): Promise<void> {
     for (const station of ['K04', 'K09', 'K06–K07']) expect(texts, `suspect list: ${texts}`).toContain(station);
     await byTestId(page, 'fit-chart').waitFor();
     await shot(page, 'fit-light');
+
+    // The long list is virtualised: far fewer rows in the DOM than readings in the campaign.
+    await page.goBack();
+    await byTestId(page, 'open-readings').click();
+    await byTestId(page, 'reading-row').first().getByText('K01', { exact: false }).waitFor();
+    const rendered = await byTestId(page, 'reading-row').count();
+    expect(rendered, 'rows in the DOM').toBeLessThan(40);
+    expect(rendered).toBeGreaterThan(5);
+    await page.goBack();
+    await byTestId(page, 'open-fit').click();
+    await top(page).locator('[data-testid="fit-figure"][data-phase="solved"]').waitFor({ timeout: 20_000 });
 
     // Exclude the arc blunder with a reason (an exclusion record), then undo it.
     const arcItem = suspects.filter({ hasText: 'K06–K07' }).first();
