@@ -3,7 +3,8 @@
 //
 //   npm run bench                      all sizes (10³ … 10⁶), p = 2 and 3
 //   npm run bench -- --max-n 100000    a shorter pass, same output
-//   options: --cap S (per-run cap for peers, default 60) --budget S --max-repeats K --min-sample S
+//   options: --cap S (per-run cap for peers, default 60) --check-cap S (correctness checks, default 300)
+//            --budget S --max-repeats K --min-sample S
 //            --seed N --estimators a,b --peers id,id | --no-peers --out FILE --readme | --no-readme
 //
 // Per size and p: the dataset is generated once (bench/data/, gitignored); each of our estimators
@@ -37,6 +38,7 @@ import type { OursRun } from './run-ours.ts';
 const REPO_ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 const DEFAULT_OUT = join(REPO_ROOT, 'bench', 'results', 'latest.json');
 const DEFAULT_CAP_SECONDS = 60;
+const DEFAULT_CHECK_CAP_SECONDS = 300;
 /** Our runner is not capped (it is what we measure) but must not hang the bench forever. */
 const OURS_TIMEOUT_SECONDS = 900;
 
@@ -44,6 +46,7 @@ interface Settings {
   sizes: number[];
   seed: number;
   capSeconds: number;
+  checkCapSeconds: number;
   timing: TimingOptions;
   estimators: Estimator[];
   peerIds: string[] | null;
@@ -52,7 +55,7 @@ interface Settings {
 }
 
 function parseSettings(argv: readonly string[]): Settings {
-  const s: Settings = { sizes: [...BENCH_SIZES], seed: DEFAULT_SEED, capSeconds: DEFAULT_CAP_SECONDS, timing: { ...DEFAULT_TIMING }, estimators: [...ESTIMATORS], peerIds: null, out: DEFAULT_OUT, readme: null };
+  const s: Settings = { sizes: [...BENCH_SIZES], seed: DEFAULT_SEED, capSeconds: DEFAULT_CAP_SECONDS, checkCapSeconds: DEFAULT_CHECK_CAP_SECONDS, timing: { ...DEFAULT_TIMING }, estimators: [...ESTIMATORS], peerIds: null, out: DEFAULT_OUT, readme: null };
   let maxN = Infinity;
   const num = (flag: string, v: string | undefined): number => {
     const x = Number(v);
@@ -66,6 +69,7 @@ function parseSettings(argv: readonly string[]): Settings {
       case '--max-n': maxN = num(flag, next()); break;
       case '--sizes': s.sizes = (next() ?? '').split(',').map((v) => num(flag, v)); break;
       case '--cap': s.capSeconds = num(flag, next()); break;
+      case '--check-cap': s.checkCapSeconds = num(flag, next()); break;
       case '--budget': s.timing.budgetSeconds = num(flag, next()); break;
       case '--max-repeats': s.timing.maxRepeats = Math.round(num(flag, next())); break;
       case '--min-sample': s.timing.minSampleSeconds = num(flag, next()); break;
@@ -115,7 +119,7 @@ async function main(): Promise<void> {
   const availability = await probeAvailability();
   const machine = machineInfo(availability);
   const peers = PEERS.filter((p) => settings.estimators.includes(p.estimator) && (settings.peerIds === null || settings.peerIds.includes(p.id)));
-  const ctx: PeerContext = { repoRoot: REPO_ROOT, availability, capSeconds: settings.capSeconds, timing: settings.timing, history: new Map() };
+  const ctx: PeerContext = { repoRoot: REPO_ROOT, availability, capSeconds: settings.capSeconds, checkCapSeconds: settings.checkCapSeconds, timing: settings.timing, history: new Map() };
   const results: ResultRow[] = [];
   const ours: OursRecord[] = [];
   const peerRuns: PeerRun[] = [];
@@ -161,7 +165,7 @@ async function main(): Promise<void> {
 
   const base = {
     results, ours, peers: peerRuns, memory, warmRefit,
-    settings: { sizes: settings.sizes, seed: settings.seed, capSeconds: settings.capSeconds, budgetSeconds: settings.timing.budgetSeconds, maxRepeats: settings.timing.maxRepeats, minSampleSeconds: settings.timing.minSampleSeconds },
+    settings: { sizes: settings.sizes, seed: settings.seed, capSeconds: settings.capSeconds, checkCapSeconds: settings.checkCapSeconds, budgetSeconds: settings.timing.budgetSeconds, maxRepeats: settings.timing.maxRepeats, minSampleSeconds: settings.timing.minSampleSeconds },
   };
   const report: BenchReport = {
     format: 'arcfield-bench-results', version: 1, startedAt, finishedAt: new Date().toISOString(),
@@ -177,7 +181,8 @@ async function main(): Promise<void> {
       mEstimatorRule: 'Huber k = 1.345, Tukey c = 4.685; start = exact L1 fit; scale = 1/Φ⁻¹(3/4)·median|r − median r| of the start residuals, held fixed; IRLS to a fixed point. MASS::rlm (timed peer) re-estimates the scale each iteration from a least-squares start: a different estimator, reported beside (its acc = 1e-12 run as a check)',
       memory: 'separate process per estimator and size; peak RSS (kernel VmHWM after clear_refs) during the first fit minus RSS of the idle process before the data were loaded; input = bytes of X and y',
       warmRefit: 'fit n − 1 rows, add the n-th reading, refit with warmStart = previous coefficients, scale and basis; median warm time / median cold time on the same n rows',
-      caps: `peer runs predicted (power law from smaller n) over ${settings.capSeconds} s are skipped; a run is killed after cap + 2·budget + 60 s`,
+      caps: `peer runs predicted (power law from smaller n) over ${settings.capSeconds} s (checks: ${settings.checkCapSeconds} s) are skipped; a run is killed after max(cap, 50 s) + 2·budget + 60 s`,
+      timingProtocol: 'a first call over 10 s is the only sample; otherwise warm-up, calibration, then at least 3 and at most maxRepeats batched samples within the budget',
     },
     targets: evaluateTargets(base, settings.estimators),
   };

@@ -9,7 +9,7 @@ import type { PeerSpec } from './peer-registry.ts';
 import { predictSeconds, type SizeTime } from './predict-time.ts';
 import type { PeerRun } from './report-types.ts';
 import { lastJsonLine, runChild, stderrTail } from './run-child.ts';
-import { median, type TimingOptions } from './timing.ts';
+import { LONG_RUN_SECONDS, median, MIN_REPEATS, type TimingOptions } from './timing.ts';
 
 /** Start-up and file reading allowance on top of the cap before the hard kill (R loads quantreg in ~1 s; 10⁶ rows read in <1 s). */
 const STARTUP_ALLOWANCE_SECONDS = 60;
@@ -18,6 +18,8 @@ export interface PeerContext {
   repoRoot: string;
   availability: Availability;
   capSeconds: number;
+  /** Cap for correctness checks: larger, because a verdict without its reference is "unchecked". */
+  checkCapSeconds: number;
   timing: TimingOptions;
   /** Per peer id and p: the sizes measured so far, and whether a smaller size already gave up. */
   history: Map<string, { times: SizeTime[]; gaveUp: string | null }>;
@@ -59,18 +61,21 @@ export async function runPeer(spec: PeerSpec, dataPath: string, n: number, p: nu
   const hist = ctx.history.get(key) ?? { times: [], gaveUp: null };
   ctx.history.set(key, hist);
   if (hist.gaveUp) return emptyRun(spec, n, p, 'skipped', `skipped (${hist.gaveUp})`);
+  const cap = spec.role === 'check' ? ctx.checkCapSeconds : ctx.capSeconds;
   const prediction = predictSeconds(hist.times, n, spec.growth);
-  if (prediction && prediction.seconds > ctx.capSeconds) {
+  if (prediction && prediction.seconds > cap) {
     hist.gaveUp = `n = ${n} predicted over the cap`;
-    return emptyRun(spec, n, p, 'skipped', `skipped (predicted ${prediction.seconds.toPrecision(3)} s > cap ${ctx.capSeconds} s; ${prediction.basis})`, prediction.seconds);
+    return emptyRun(spec, n, p, 'skipped', `skipped (predicted ${prediction.seconds.toPrecision(3)} s > cap ${cap} s; ${prediction.basis})`, prediction.seconds);
   }
   const [command, args] = commandFor(spec, ctx, dataPath);
-  const limit = ctx.capSeconds + 2 * ctx.timing.budgetSeconds + STARTUP_ALLOWANCE_SECONDS;
+  // Worst case inside the cap: a first call just under LONG_RUN_SECONDS followed by a calibration
+  // call and MIN_REPEATS samples, or one call up to the cap.
+  const limit = Math.max(cap, (2 + MIN_REPEATS) * LONG_RUN_SECONDS) + 2 * ctx.timing.budgetSeconds + STARTUP_ALLOWANCE_SECONDS;
   const out = await runChild(command, args, { timeoutSeconds: limit, cwd: ctx.repoRoot });
   const predicted = prediction?.seconds ?? null;
   if (out.timedOut) {
     hist.gaveUp = `n = ${n} timed out`;
-    return emptyRun(spec, n, p, 'timed out', `timed out (killed after ${limit} s; cap ${ctx.capSeconds} s)`, predicted);
+    return emptyRun(spec, n, p, 'timed out', `timed out (killed after ${limit} s; cap ${cap} s)`, predicted);
   }
   const json = lastJsonLine(out.stdout) as PeerJson | null;
   if (out.code !== 0 || !json) {

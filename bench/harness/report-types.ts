@@ -138,6 +138,7 @@ export interface BenchReport {
     sizes: number[];
     seed: number;
     capSeconds: number;
+    checkCapSeconds: number;
     budgetSeconds: number;
     maxRepeats: number;
     minSampleSeconds: number;

@@ -1,11 +1,12 @@
 // The one timing protocol of the benchmark, shared in spirit with bench/peers/dataset.py and
 // bench/peers/dataset.R (keep the three in step):
 //   1. one first call (warm-up: JIT, caches, lazy allocation);
-//   2. if budget/first < 2, the first call is the only sample (re-running a 40 s LP to get a
-//      median would double the run for little information);
+//   2. if the first call took more than LONG_RUN_SECONDS, it is the only sample (re-running a
+//      40 s LP three times to get a median would triple the run for little information);
 //   3. otherwise one calibration call (the first is often several times slower than the rest),
 //      then k calls per sample, k = ⌈minSample/c⌉ with c the faster of the two, so a sample is long
-//      enough for the clock, and min(maxRepeats, ⌊budget/(c·k)⌋) samples (at least one).
+//      enough for the clock, and clamp(⌊budget/(c·k)⌋, MIN_REPEATS, maxRepeats) samples: a median
+//      of at least three warm samples even when the budget is short.
 // Every figure is wall-clock seconds per call from process.hrtime (ns resolution).
 
 export interface TimingOptions {
@@ -15,6 +16,10 @@ export interface TimingOptions {
   /** Shortest sample worth timing; shorter calls are batched. */
   minSampleSeconds: number;
 }
+
+/** A call longer than this is timed once (keep equal to LONG_RUN_SECONDS in dataset.py / dataset.R). */
+export const LONG_RUN_SECONDS = 10;
+export const MIN_REPEATS = 3;
 
 export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 2, maxRepeats: 7, minSampleSeconds: 0.02 };
 
@@ -46,14 +51,14 @@ export function timeCall<T>(call: () => T, options: TimingOptions = DEFAULT_TIMI
   const first = seconds(t0);
   let samples: number[];
   let k = 1;
-  if (first <= 0 || options.budgetSeconds / first < 2) {
+  if (first > LONG_RUN_SECONDS) {
     samples = [first];
   } else {
     t0 = process.hrtime.bigint();
     sink(call());
     const calibration = Math.max(Math.min(first, seconds(t0)), 1e-9);
     k = Math.max(1, Math.ceil(options.minSampleSeconds / calibration));
-    const repeats = Math.max(1, Math.min(options.maxRepeats, Math.floor(options.budgetSeconds / (calibration * k))));
+    const repeats = Math.max(Math.min(MIN_REPEATS, options.maxRepeats), Math.min(options.maxRepeats, Math.floor(options.budgetSeconds / (calibration * k))));
     samples = [];
     for (let r = 0; r < repeats; r++) {
       t0 = process.hrtime.bigint();

@@ -6,9 +6,12 @@
 # H, 4 zero bytes, H bytes of JSON header, then n float64 LE x values and n float64 LE y values.
 #
 # Timing protocol (identical in bench/harness/timing.ts and bench/peers/dataset.py): one first call
-# (warm-up); if budget/first < 2 the first call is the only sample; otherwise one calibration call,
-# c = the faster of the two, k = ceil(min_sample / c) calls per sample, and
-# min(max_repeats, floor(budget / (c * k))) samples.
+# (warm-up); if it took more than LONG_RUN_SECONDS it is the only sample; otherwise one calibration
+# call, c = the faster of the two, k = ceil(min_sample / c) calls per sample, and
+# clamp(floor(budget / (c * k)), MIN_REPEATS, max_repeats) samples.
+
+LONG_RUN_SECONDS <- 10  # keep equal to bench/harness/timing.ts
+MIN_REPEATS <- 3
 
 read_dataset <- function(path) {
   con <- file(path, "rb")
@@ -35,12 +38,12 @@ time_fit <- function(fit, budget, max_repeats, min_sample) {
   t0 <- now()
   result <- fit()
   first <- now() - t0
-  if (first <= 0 || budget / first < 2) return(list(result = result, seconds = first, calls = 1))
+  if (first > LONG_RUN_SECONDS) return(list(result = result, seconds = first, calls = 1))
   t0 <- now()
   result <- fit()
   calibration <- max(min(first, now() - t0), 1e-9)
   k <- max(1, ceiling(min_sample / calibration))
-  repeats <- max(1, min(max_repeats, floor(budget / (calibration * k))))
+  repeats <- max(min(MIN_REPEATS, max_repeats), min(max_repeats, floor(budget / (calibration * k))))
   samples <- numeric(repeats)
   for (r in seq_len(repeats)) {
     t0 <- now()

@@ -5,9 +5,10 @@ File layout (see bench/harness/dataset-file.ts): 8-byte magic "ARCBNCH1", uint32
 4 zero bytes, H bytes of JSON header, then n float64 LE x values and n float64 LE y values.
 
 Timing protocol (identical in bench/harness/timing.ts and bench/peers/dataset.R): one first call
-(warm-up); if budget/first < 2 the first call is the only sample; otherwise one calibration call,
-c = the faster of the two, k = ceil(min_sample / c) calls per sample so a sample is long enough for
-the clock, and min(max_repeats, floor(budget / (c * k))) samples; the median is reported.
+(warm-up); if it took more than LONG_RUN_SECONDS it is the only sample; otherwise one calibration
+call, c = the faster of the two, k = ceil(min_sample / c) calls per sample so a sample is long
+enough for the clock, and clamp(floor(budget / (c * k)), MIN_REPEATS, max_repeats) samples; the
+median is reported.
 """
 import json
 import math
@@ -19,6 +20,8 @@ import time
 import numpy as np
 
 MAGIC = b"ARCBNCH1"
+LONG_RUN_SECONDS = 10  # keep equal to bench/harness/timing.ts
+MIN_REPEATS = 3
 
 
 def read_dataset(path):
@@ -47,13 +50,13 @@ def time_fit(fit, budget, max_repeats, min_sample):
     t0 = time.perf_counter()
     result = fit()
     first = time.perf_counter() - t0
-    if first <= 0 or budget / first < 2:
+    if first > LONG_RUN_SECONDS:
         return result, [first], 1
     t0 = time.perf_counter()
     result = fit()
     calibration = max(min(first, time.perf_counter() - t0), 1e-9)
     k = max(1, math.ceil(min_sample / calibration))
-    repeats = max(1, min(max_repeats, math.floor(budget / (calibration * k))))
+    repeats = max(min(MIN_REPEATS, max_repeats), min(max_repeats, math.floor(budget / (calibration * k))))
     samples = []
     for _ in range(repeats):
         t0 = time.perf_counter()
