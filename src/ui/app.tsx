@@ -41,8 +41,9 @@ function Routes() {
 }
 
 export function App({ services }: { services: Services }) {
-  const stored = useLiveQuery(() => readSetting<unknown>(services.store.db, SETTING_APP), [services]);
-  const settings: AppSettings = useMemo(() => (stored === undefined ? DEFAULT_APP_SETTINGS : readAppSettings(stored)), [stored]);
+  // Wrapped so that "still loading" (undefined) differs from "never saved" ({ value: undefined }).
+  const stored = useLiveQuery(async () => ({ value: await readSetting<unknown>(services.store.db, SETTING_APP) }), [services]);
+  const settings: AppSettings = useMemo(() => (stored === undefined ? DEFAULT_APP_SETTINGS : readAppSettings(stored.value)), [stored]);
   const handle: SettingsHandle = useMemo(() => ({
     settings,
     save: async (patch) => {
@@ -60,7 +61,7 @@ export function App({ services }: { services: Services }) {
       <SettingsContext.Provider value={handle}>
         <IonApp>
           <UpdatePrompt />
-          <Routes />
+          {stored === undefined ? null : <Routes />}
         </IonApp>
       </SettingsContext.Provider>
     </ServicesContext.Provider>

@@ -126,7 +126,8 @@ async function journey(page: Page, errors: string[]): Promise<void> {
     // The form is ready for the next repeat at the same station; an error is said in words.
     await fill(page, 'latitude-text', `8°75'`);
     await byTestId(page, 'latitude-error').waitFor();
-    expect(await byTestId(page, 'save-latitude').getAttribute('disabled')).not.toBeNull();
+    // ion-button reflects its disabled property to the attribute asynchronously.
+    await expect.poll(() => byTestId(page, 'save-latitude').evaluate((b) => (b as HTMLElement & { disabled: boolean }).disabled)).toBe(true);
     await fill(page, 'latitude-text', '8.1201389');
     await fill(page, 'latitude-sigma', '0.25');
     await byTestId(page, 'save-latitude').click();
@@ -227,6 +228,8 @@ async function journey(page: Page, errors: string[]): Promise<void> {
 
     // 6. Dark theme screenshots of the main screens.
     await page.goto(`${server.url}/settings`);
+    // The settings typed at the start were kept and are shown as stored.
+    await expect.poll(() => byTestId(page, 'setting-gnss-fixes').locator('input').inputValue()).toBe('3');
     await choose(page, 'setting-theme', 'dark');
     await page.waitForFunction(() => document.documentElement.classList.contains('ion-palette-dark'));
     await shot(page, 'settings-dark');

@@ -18,7 +18,14 @@ import type { AppSettings } from '../settings/app-settings.ts';
 
 function NumberSetting({ label, value, onValid, min, max, testId }: { label: string; value: number; onValid: (v: number) => void; min: number; max: number; testId: string }) {
   // Local text while typing; only valid values are saved (an invalid one is shown, not stored).
+  // When the stored value changes from elsewhere, the text follows (React's derive-from-props pattern).
   const [text, setText] = useState(String(value));
+  const [shown, setShown] = useState(value);
+  if (shown !== value) {
+    setShown(value);
+    const typed = readNumberEntry(text, { min, max });
+    if (typed.status !== 'ok' || typed.value !== value) setText(String(value));
+  }
   const parsed = readNumberEntry(text, { min, max });
   return (
     <>
