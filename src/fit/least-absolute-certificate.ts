@@ -117,6 +117,7 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
           zeroRows[zeroCount++] = i;
         }
       }
+      if (!Number.isFinite(block)) throw nonFiniteIn(problem, residuals, start, end);
       objective += block;
       [G[0], comp[0]] = twoSum(G[0], g0, comp[0]);
       [G[1], comp[1]] = twoSum(G[1], g1, comp[1]);
@@ -165,6 +166,7 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
           zeroRows[zeroCount++] = i;
         }
       }
+      if (!Number.isFinite(block)) throw nonFiniteIn(problem, residuals, start, end);
       objective += block;
       for (let j = 0; j < p; j++) {
         [G[j], comp[j]] = twoSum(G[j], blockG[j], comp[j]);
@@ -282,6 +284,12 @@ export function certify(
       ? `basis rows are ${basisOffset.toExponential(1)}× their zero tolerance off interpolation`
       : `dual condition fails: max|z| = ${maxDual.toPrecision(6)} > 1 (relative gap bound ${gapBound.toExponential(1)})`;
   return { ok, maxDual, gapBound, fullRankProved, basisOffset, reason };
+}
+
+/** The InputError for the first row of [from, to) with a non-finite residual (Σ|r| of the block was not finite). */
+function nonFiniteIn(problem: LinearProblem, residuals: Float64Array, from: number, to: number): Error {
+  for (let i = from; i < to; i++) if (!Number.isFinite(residuals[i])) return nonFiniteRow(problem, i);
+  return nonFiniteRow(problem, from);
 }
 
 /**

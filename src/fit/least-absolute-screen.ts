@@ -12,7 +12,6 @@
 // Int32Array, the sums to p accumulators.
 import type { Band } from './least-absolute-band.ts';
 import { nonFiniteRow } from './simplex-frame.ts';
-import type { ShiftedScaleWindows } from './simplex-residual-scale.ts';
 import type { LinearProblem } from './types.ts';
 
 export interface ScreenResult {
@@ -43,13 +42,12 @@ export interface FullScreen extends ScreenResult {
  * The screening pass over all n rows at β with `band`, doing in the same stream everything the
  * certificate needs from the full data (least-absolute.ts): the pinned sum (blocks of SCREEN_BLOCK
  * rows summed plainly, blocks combined with TwoSum, as in least-absolute-certificate.ts), the
- * pinned rows' Σ|ρ|, column norms, the largest leverage, the MAD windows' counts and candidates,
- * and a copy of each kept row. Branch-free on the side (s = 1 − 2·[ρ < 0]; `+(bool)` compiles
+ * pinned rows' Σ|ρ|, column norms, the largest leverage, and a copy of each kept row. Branch-free on the side (s = 1 − 2·[ρ < 0]; `+(bool)` compiles
  * to a set-on-condition): every row adds s·aᵢ to the block sum and kept rows (a few per cent,
  * a well-predicted branch) take it back out; a branch on the random side would mispredict half
  * the time and cost several times the pass.
  */
-export function screenRows(problem: LinearProblem, beta: Float64Array, band: Band, windows: ShiftedScaleWindows | null, capacityHint: number): FullScreen {
+export function screenRows(problem: LinearProblem, beta: Float64Array, band: Band, capacityHint: number): FullScreen {
   const { n, p, X, y, weights } = problem;
   const buf = new KeptBuffer(p, Math.max(16, Math.min(n, capacityHint)), n);
   const pinned = new Float64Array(p);
@@ -62,14 +60,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
   const Q = band.rawQ;
   const scale = band.scale;
   const floor = band.floor;
-  const win = windows;
-  const medLo = win ? win.medLoOut : -Infinity;
-  const medHi = win ? win.medHiOut : -Infinity;
-  const centre = win ? win.centre : 0;
-  const madLo = win ? win.madLoOut : -Infinity;
-  const madHi = win ? win.madHiOut : -Infinity;
-  let medBelow = 0;
-  let madBelow = 0;
   for (let start = 0; start < n; start += SCREEN_BLOCK) {
     const end = Math.min(n, start + SCREEN_BLOCK);
     let absBlock = 0;
@@ -98,16 +88,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         sideSum += sg;
         const a = Math.abs(r);
         absBlock += a;
-        const belowMed = +(r <= medLo);
-        medBelow += belowMed;
-        const am = Math.abs(r - centre);
-        const belowMad = +(am <= madLo);
-        madBelow += belowMad;
-        // 1 exactly when r is inside (medLo, medHi) or am inside (madLo, madHi): rare.
-        if (+(r < medHi) - belowMed + (+(am < madHi) - belowMad) > 0 && win) {
-          if (r > medLo && r < medHi) win.pushMedian(i);
-          if (am > madLo && am < madHi) win.pushMad(i);
-        }
         if (!(r * r >= scale * lev + floor)) {
           // Kept (rare): take the row back out of the pinned sums and copy it.
           if (!(r === r)) throw nonFiniteRow(problem, i);
@@ -122,6 +102,56 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
       blockSum[1] = s1;
       colSq[0] += c0;
       colSq[1] += c1;
+    } else if (p === 3 && !weights) {
+      // The degree model with the x² term, unweighted, unrolled likewise.
+      const b0 = beta[0];
+      const b1 = beta[1];
+      const b2 = beta[2];
+      const q00 = Q[0];
+      const q01 = Q[1] + Q[3];
+      const q02 = Q[2] + Q[6];
+      const q11 = Q[4];
+      const q12 = Q[5] + Q[7];
+      const q22 = Q[8];
+      let s0 = 0;
+      let s1 = 0;
+      let s2 = 0;
+      let c0 = 0;
+      let c1 = 0;
+      let c2 = 0;
+      for (let i = start; i < end; i++) {
+        const x0 = X[3 * i];
+        const x1 = X[3 * i + 1];
+        const x2 = X[3 * i + 2];
+        const r = y[i] - b0 * x0 - b1 * x1 - b2 * x2;
+        const sg = 1 - 2 * +(r < 0);
+        const lev = x0 * (q00 * x0 + q01 * x1 + q02 * x2) + x1 * (q11 * x1 + q12 * x2) + q22 * x2 * x2;
+        maxLeverage = Math.max(maxLeverage, lev);
+        s0 += sg * x0;
+        s1 += sg * x1;
+        s2 += sg * x2;
+        c0 += x0 * x0;
+        c1 += x1 * x1;
+        c2 += x2 * x2;
+        sideSum += sg;
+        const a = Math.abs(r);
+        absBlock += a;
+        if (!(r * r >= scale * lev + floor)) {
+          if (!(r === r)) throw nonFiniteRow(problem, i);
+          s0 -= sg * x0;
+          s1 -= sg * x1;
+          s2 -= sg * x2;
+          sideSum -= sg;
+          absBlock -= a;
+          buf.push(X, y, i, 1);
+        }
+      }
+      blockSum[0] = s0;
+      blockSum[1] = s1;
+      blockSum[2] = s2;
+      colSq[0] += c0;
+      colSq[1] += c1;
+      colSq[2] += c2;
     } else {
       for (let i = start; i < end; i++) {
         const o = i * p;
@@ -146,15 +176,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         const rho = s * r;
         const sg = 1 - 2 * +(r < 0);
         const a = Math.abs(rho);
-        const belowMed = +(rho <= medLo);
-        medBelow += belowMed;
-        const am = Math.abs(rho - centre);
-        const belowMad = +(am <= madLo);
-        madBelow += belowMad;
-        if (+(rho < medHi) - belowMed + (+(am < madHi) - belowMad) > 0 && win) {
-          if (rho > medLo && rho < medHi) win.pushMedian(i);
-          if (am > madLo && am < madHi) win.pushMad(i);
-        }
         if (r * r >= scale * lev + floor) {
           const ss = s * sg;
           for (let j = 0; j < p; j++) blockSum[j] += ss * X[o + j];
@@ -166,6 +187,9 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         }
       }
     }
+    // A non-finite value makes its residual ±∞ or NaN, and so the block's Σ|r| (kept rows are
+    // taken out, ∞ − ∞ is NaN): one test per block, the culprit found only then.
+    if (!Number.isFinite(absBlock)) throw nonFiniteIn(problem, beta, start, end);
     pinnedAbs += absBlock;
     for (let j = 0; j < p; j++) {
       const t = pinned[j] + blockSum[j];
@@ -176,10 +200,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
     }
   }
   for (let j = 0; j < p; j++) pinned[j] += comp[j];
-  if (win) {
-    win.medBelow = medBelow;
-    win.madBelow = madBelow;
-  }
   const count = buf.count;
   const pinnedCount = n - count;
   return {
@@ -220,6 +240,17 @@ class KeptBuffer {
     this.y = resize(this.y, this.cap);
     this.s = resize(this.s, this.cap);
   }
+}
+
+/** The InputError for the first row of [from, to) whose residual at β is not finite. */
+function nonFiniteIn(problem: LinearProblem, beta: Float64Array, from: number, to: number): Error {
+  const { p, X, y } = problem;
+  for (let i = from; i < to; i++) {
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    if (!Number.isFinite(y[i] - f)) return nonFiniteRow(problem, i);
+  }
+  return nonFiniteRow(problem, from);
 }
 
 /** Rows per block of the pinned sums (error ≤ γ_SCREEN_BLOCK·Σ|aᵢⱼ| + 2ε|S_j|). */

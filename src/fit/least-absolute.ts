@@ -22,7 +22,7 @@
 // - a warm start (a previous solution, e.g. before one more reading): no subsample; the band is
 //   sized to hold ~WARM_KEPT_ROWS·p rows around the previous fit and the previous basis is the
 //   first vertex, so a refit after one more row costs about two passes over the data.
-import { bandFromSubsample, bandHalfWidth, inverseGram, leverage, makeBand, widen, withRoundingFloor, type Band } from './least-absolute-band.ts';
+import { bandFromSubsample, bandHalfWidth, inverseGram, makeBand, widen, withRoundingFloor, type Band } from './least-absolute-band.ts';
 import { certify, finalPass, ROW_ZERO_EPS, type Certificate, type FinalPass } from './least-absolute-certificate.ts';
 import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult, type DescentStart } from './least-absolute-descent.ts';
 import { proveByBand, residualPass, type BandProof } from './least-absolute-proof.ts';
@@ -31,7 +31,8 @@ import { fitSubsample, leastSquaresStart, positionsIn, binarySearch, type Subsam
 import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoefficients, type ColumnFrame } from './simplex-frame.ts';
 import { assertProblemShape, systematicSample, unsolved, vetWarmStart } from './simplex-problem.ts';
 import { designRank } from './simplex-rank.ts';
-import { madScaleInPlace, planScale, planShiftedScale, type ScaleCollector } from './simplex-residual-scale.ts';
+import { factorLu, solveLu } from './linear-solve.ts';
+import { madScaleInPlace, madScaleOfResiduals, planScale, type ScaleCollector } from './simplex-residual-scale.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
 /** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
@@ -56,8 +57,6 @@ export const MAX_KEPT_FRACTION = 0.5;
  * given the side of its rounding — an error in the objective of the order of that rounding.
  */
 export const ZERO_GUARD_FACTOR = 2 ** 10;
-/** The MAD windows' margin is the band's move bound at this multiple of the largest sampled leverage. */
-export const LEVERAGE_MARGIN_FACTOR = 4;
 /**
  * Pivots allowed per descent: Barrodale–Roberts counts grow like a small multiple of p·log m; on
  * the benchmark data the worst seen (bench/quick-exact.ts prints them) is far below this.
@@ -80,6 +79,8 @@ interface Seed {
   beta: Float64Array;
   basis: Int32Array | null;
   band: Band;
+  /** The expected fraction of rows inside the band (for the buffer sizes). */
+  keepFraction: number;
   how: string;
 }
 
@@ -94,26 +95,30 @@ export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {
     : Math.min(n, Math.max(MIN_SUBSAMPLE_ROWS, Math.round(SUBSAMPLE_FACTOR * (p * n) ** (2 / 3))));
   const sample = systematicSample(n, m0);
   const base = buildFrame(problem, sample, m0, new Float64Array(p));
-  const beta0 = warm.coefficients ?? rawCoefficients(base, leastSquaresStart(gatherRows(problem, base, sample, m0, new Float64Array(p))));
+  // One gather of the sample: moving the frame's reference fit by Lγ only shifts b̃ by −Ãγ.
+  const sub = gatherRows(problem, base, sample, m0, new Float64Array(p));
+  let beta0: Float64Array;
+  if (warm.coefficients) {
+    beta0 = warm.coefficients;
+    shiftReference(sub, frameCoefficients(base, beta0));
+  } else {
+    const gamma0 = leastSquaresStart(sub);
+    beta0 = rawCoefficients(base, gamma0);
+    shiftReference(sub, gamma0);
+  }
   const frame = withReference(base, beta0);
   if (!screened) return direct(ctx, frame, sample, warm.basis, 'all rows to the vertex descent');
 
-  const sub = gatherRows(problem, frame, sample, m0, new Float64Array(p));
   const seeded = warm.coefficients ? warmSeed(problem, frame, sub, warm.coefficients, warm.basis, warm.scale) : subsampleSeed(ctx, frame, sub, sample);
   if ('status' in seeded) return seeded;
   let { beta, basis, band } = seeded;
+  let keepFraction = seeded.keepFraction;
   const magnitude = rowMagnitude(problem, sample, beta);
   band = withRoundingFloor(band, 8 * (p + 1) * Number.EPSILON * ZERO_GUARD_FACTOR * magnitude);
 
   for (let round = 1; round <= MAX_SCREEN_ROUNDS; round++) {
     const roundFrame = withReference(frame, beta);
-    // MAD windows planned from the sample's residuals at β (the sample rows are already in `sub`).
-    const gamma = frameCoefficients(frame, beta);
-    const sampleRho = residualsAt(sub, gamma);
-    let maxLev = 0;
-    for (let i = 0; i < sub.m; i++) maxLev = Math.max(maxLev, leverage(sub.A, i, p, band.frameQ));
-    const windows = planShiftedScale(sampleRho, sub.m, n, Math.sqrt(band.scale * LEVERAGE_MARGIN_FACTOR * maxLev));
-    const screen = screenRows(problem, beta, band, windows, Math.ceil(2 * n * Math.min(1, BAND_KAPPA * Math.sqrt(p / m0))) + 64);
+    const screen = screenRows(problem, beta, band, Math.ceil(1.5 * n * Math.min(1, keepFraction)) + 64);
     if (screen.keptCount > MAX_KEPT_FRACTION * n) return direct(ctx, frame, sample, basis, `band kept ${screen.keptCount} of ${n} rows`);
     const cp = keptCompact(roundFrame, screen);
     const start: DescentStart = { gamma: new Float64Array(p) };
@@ -125,15 +130,16 @@ export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {
     if (res.status === 'unbounded') {
       // Pinned rows on the wrong side left the small problem without a minimum: widen.
       band = widen(band);
+      keepFraction *= 2;
       continue;
     }
-    const betaStar = rawCoefficients(roundFrame, res.gamma);
     const basisRows = res.basis.map((k) => screen.kept[k]);
+    const betaStar = refineVertex(problem, roundFrame, rawCoefficients(roundFrame, res.gamma), basisRows);
     const detail = `${seeded.how}; band ±${bandHalfWidth(band, p).toPrecision(3)} (at an average row) kept ${screen.keptCount} rows, ` +
       `pinned ${screen.above} above and ${screen.below} below` + (round > 1 ? `; ${round} rounds` : '');
     const proof = proveByBand(problem, roundFrame, band, cp, res, screen);
     if (proof.ok || res.status === 'iteration-cap') {
-      return finishProven(ctx, problem, betaStar, basisRows, beta, screen, res, proof, windows,
+      return finishProven(ctx, problem, betaStar, basisRows, beta, screen, res, proof,
         res.status === 'iteration-cap' ? `descent stopped at its iteration cap; ${detail}` : detail);
     }
     // No proof from the band: certify on all rows (slower, conclusive).
@@ -142,6 +148,7 @@ export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {
     beta = betaStar;
     basis = basisRows;
     band = widen(band);
+    keepFraction *= 2;
   }
   return direct(ctx, frame, sample, basis, `no certificate after ${MAX_SCREEN_ROUNDS} screening rounds`);
 }
@@ -158,6 +165,7 @@ function subsampleSeed(ctx: Context, frame: ColumnFrame, sub: CompactLeastAbsolu
     beta: rawCoefficients(frame, res.gamma),
     basis: res.basis.map((k) => sample[k]),
     band: bandFromSubsample(frame, sub.A, res.residuals, sub.m, Math.min(1, BAND_KAPPA * Math.sqrt(p / sub.m))),
+    keepFraction: Math.min(1, BAND_KAPPA * Math.sqrt(p / sub.m)),
     how: `subsample of ${sub.m} rows`,
   };
 }
@@ -170,7 +178,44 @@ function warmSeed(problem: LinearProblem, frame: ColumnFrame, sub: CompactLeastA
   const Q = inverseGram(sub.A, sub.m, p);
   const sigma = scale ?? madScaleInPlace(Float64Array.from(rho), sub.m);
   const band = Q && sigma > 0 ? makeBand(frame, Q, sigma * SQRT_HALF_PI * q) : bandFromSubsample(frame, sub.A, rho, sub.m, q);
-  return { beta, basis, band, how: 'warm start' };
+  return { beta, basis, band, keepFraction: q, how: 'warm start' };
+}
+
+/**
+ * One step of iterative refinement of the vertex on the raw basis rows: δγ solves Ã_B δγ = r_B
+ * (the raw residuals of the basis rows, whitened) in the frame, β += L·δγ. The frame's reference
+ * fit can be far from the optimum (least squares pulled by a gross outlier), and then the
+ * vertex solved in the frame carries an absolute error of ε times that distance; one step
+ * brings the basis rows to interpolation at the rounding of their own magnitude (GVL §3.5.3).
+ */
+function refineVertex(problem: LinearProblem, frame: ColumnFrame, beta: Float64Array, basis: Int32Array): Float64Array {
+  const { p, X, y, weights } = problem;
+  const { L } = frame;
+  const AB = new Float64Array(p * p);
+  const r = new Float64Array(p);
+  for (let k = 0; k < p; k++) {
+    const i = basis[k];
+    const s = weights ? Math.sqrt(weights[i]) : 1;
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    r[k] = s * (y[i] - f);
+    for (let c = 0; c < p; c++) {
+      let t = 0;
+      for (let j = 0; j < p; j++) t += X[i * p + j] * L[j * p + c];
+      AB[k * p + c] = s * t;
+    }
+  }
+  const lu = factorLu(AB, p);
+  if (lu.singular) return beta;
+  const dg = solveLu(lu, r);
+  const out = Float64Array.from(beta);
+  for (let j = 0; j < p; j++) {
+    let t = 0;
+    for (let c = 0; c < p; c++) t += L[j * p + c] * dg[c];
+    out[j] += t;
+  }
+  for (let j = 0; j < p; j++) if (!Number.isFinite(out[j])) return beta;
+  return out;
 }
 
 /** Largest √wᵢ(|yᵢ| + Σ|xᵢⱼβⱼ|) over the sample: the scale of the rounding bounds. */
@@ -189,17 +234,15 @@ function rowMagnitude(problem: LinearProblem, rows: Int32Array, beta: Float64Arr
 /** The result once the band proof (or the iteration cap) ended the screened solve. */
 function finishProven(
   ctx: Context, problem: LinearProblem, beta: Float64Array, basis: Int32Array, betaScreen: Float64Array, screen: FullScreen,
-  res: DescentResult, proof: BandProof, windows: ReturnType<typeof planShiftedScale>, how: string,
+  res: DescentResult, proof: BandProof, how: string,
 ): FitResult {
-  const { n, p, weights } = problem;
+  const { p, weights } = problem;
   const residuals = residualPass(problem, beta);
   // Pinned rows kept their sides: Σ sᵢρᵢ(β*) = Σ|ρᵢ(β_s)| − (Σ sᵢaᵢ)·(β* − β_s), linear in β*.
   let objective = screen.pinnedAbs;
   for (let j = 0; j < p; j++) objective -= screen.pinnedSum[j] * (beta[j] - betaScreen[j]);
   for (let k = 0; k < res.residuals.length; k++) objective += Math.abs(res.residuals[k]);
-  const rhoAt = (i: number): number => (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
-  let scale = windows ? windows.finish(n, Math.sqrt(screen.maxLeverage) * proof.move, rhoAt) : null;
-  if (scale === null) scale = fullScale(problem, residuals);
+  const scale = madScaleOfResiduals(residuals, weights);
   if (!proof.fullRankProved) {
     const rank = designRank(problem);
     if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);
@@ -238,7 +281,8 @@ function direct(ctx: Context, frame: ColumnFrame, sample: Int32Array, basis: Int
     return unsolved('least-absolute', problem, 'not-converged', `descent on all rows ended '${res.status}' on a full-rank design`, ctx.iterations);
   }
   const sign = res.sign;
-  const cand = evaluate(ctx, rawCoefficients(frame, res.gamma), res.basis, sample, (i) => (sign[i] === 0 ? 1 : sign[i]));
+  const beta = refineVertex(problem, frame, rawCoefficients(frame, res.gamma), res.basis);
+  const cand = evaluate(ctx, beta, res.basis, sample, (i) => (sign[i] === 0 ? 1 : sign[i]));
   return finish(ctx, cand, res.status === 'iteration-cap' ? `descent stopped at its iteration cap; ${how}` : how);
 }
 
@@ -370,6 +414,16 @@ function residualsAt(cp: CompactLeastAbsolute, gamma: Float64Array): Float64Arra
     out[i] = b[i] - f;
   }
   return out;
+}
+
+/** b̃ ← b̃ − Ãγ: the compact rows re-referenced to β_ref + Lγ. */
+function shiftReference(cp: CompactLeastAbsolute, gamma: Float64Array): void {
+  const { m, p, A, b } = cp;
+  for (let i = 0; i < m; i++) {
+    let f = 0;
+    for (let j = 0; j < p; j++) f += A[i * p + j] * gamma[j];
+    b[i] -= f;
+  }
 }
 
 function withReference(frame: ColumnFrame, beta: Float64Array): ColumnFrame {

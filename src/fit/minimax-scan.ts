@@ -118,7 +118,7 @@ class ViolatorBins {
   constructor(private readonly axis: BinAxis, private readonly p: number) {}
 
   note(problem: LinearProblem, i: number, rho: number): void {
-    if (!(rho === rho)) throw nonFiniteRow(problem, i);
+    if (!Number.isFinite(rho)) throw nonFiniteRow(problem, i);
     this.count++;
     const { X } = problem;
     const { coef, lo, width } = this.axis;

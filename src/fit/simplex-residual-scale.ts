@@ -157,89 +157,6 @@ function grow(buf: Float64Array): Float64Array {
   return next;
 }
 
-/**
- * The windows of `ScaleCollector`, for a pass at coefficients β_s made before the final β* is
- * known (the screening pass of the least-absolute-deviations fit). Every row's whitened residual
- * moves by at most `margin` between the two (checked by the caller), so rows are counted below
- * a window only when they are below it by more than the margin, and kept as candidates (by
- * index) when within the margin of it; the exact values at β* are read back afterwards.
- */
-export class ShiftedScaleWindows {
-  medBelow = 0;
-  madBelow = 0;
-  medCount = 0;
-  madCount = 0;
-  medRows: Int32Array;
-  madRows: Int32Array;
-  /** Window edges widened by the margin (what the pass compares against). */
-  readonly medLoOut: number;
-  readonly medHiOut: number;
-  readonly madLoOut: number;
-  readonly madHiOut: number;
-
-  constructor(
-    readonly medLo: number, readonly medHi: number, readonly centre: number,
-    readonly madLo: number, readonly madHi: number, readonly margin: number, capacity: number,
-  ) {
-    this.medLoOut = medLo - margin;
-    this.medHiOut = medHi + margin;
-    this.madLoOut = madLo - margin;
-    this.madHiOut = madHi + margin;
-    this.medRows = new Int32Array(capacity);
-    this.madRows = new Int32Array(capacity);
-  }
-
-  pushMedian(row: number): void {
-    if (this.medCount === this.medRows.length) this.medRows = growInt(this.medRows);
-    this.medRows[this.medCount++] = row;
-  }
-
-  pushMad(row: number): void {
-    if (this.madCount === this.madRows.length) this.madRows = growInt(this.madRows);
-    this.madRows[this.madCount++] = row;
-  }
-
-  /**
-   * The exact MAD scale of the n residuals at β*, given `rhoAt(row)` (whitened, at β*) and the
-   * proven bound `shift` on every row's move (must be ≤ margin), or null when a window missed.
-   * Rows counted below moved at most `shift`, so they lie at or below the unwidened edge; the
-   * candidates' exact values then decide as in `ScaleCollector.finish`.
-   */
-  finish(n: number, shift: number, rhoAt: (row: number) => number): number | null {
-    if (!(shift <= this.margin)) return null;
-    const k1 = (n - 1) >> 1;
-    const k2 = n >> 1;
-    if (!(this.medBelow <= k1 && k2 < this.medBelow + this.medCount)) return null;
-    const med = new Float64Array(this.medCount);
-    for (let k = 0; k < this.medCount; k++) med[k] = rhoAt(this.medRows[k]);
-    const v1 = selectInPlace(med, this.medCount, k1 - this.medBelow);
-    const v2 = selectInPlace(med, this.medCount, k2 - this.medBelow);
-    if (!(v1 >= this.medLo && v2 <= this.medHi)) return null;
-    const m = 0.5 * (v1 + v2);
-    const D = Math.abs(m - this.centre);
-    if (!(this.madBelow <= k1 && k2 < this.madBelow + this.madCount)) return null;
-    const mad = new Float64Array(this.madCount);
-    for (let k = 0; k < this.madCount; k++) mad[k] = Math.abs(rhoAt(this.madRows[k]) - m);
-    const a1 = selectInPlace(mad, this.madCount, k1 - this.madBelow);
-    const a2 = selectInPlace(mad, this.madCount, k2 - this.madBelow);
-    if (!(a1 >= this.madLo + D && a2 <= this.madHi - D)) return null;
-    return MAD_CONSISTENCY * 0.5 * (a1 + a2);
-  }
-}
-
-/** Windows for a pass at β_s from `count` whitened sample residuals at β_s (reordered). */
-export function planShiftedScale(sample: Float64Array, count: number, n: number, margin: number): ShiftedScaleWindows | null {
-  if (n <= DIRECT_SCALE_MAX_ROWS || count < 64) return null;
-  const [medLo, medHi, centre, madLo, madHi, half] = windowEdges(sample, count);
-  return new ShiftedScaleWindows(medLo, medHi, centre, madLo, madHi, margin, Math.ceil(3 * half * n) + 64);
-}
-
-function growInt(buf: Int32Array): Int32Array {
-  const next = new Int32Array(buf.length * 2 + 16);
-  next.set(buf);
-  return next;
-}
-
 /** Rows sampled (at a constant stride) to plan the windows of `madScaleOfResiduals`: each window then holds ≈ 2·WINDOW_Z·0.5/√this ≈ 5 % of the rows. */
 export const SCALE_SAMPLE_ROWS = 16384;
 
@@ -278,33 +195,72 @@ export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Arr
  */
 function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector): void {
   const n = residuals.length;
-  const { medLo, medHi, centre, madLo, madHi } = col;
-  let medBelow = 0;
-  let madBelow = 0;
-  let mc = col.medCount;
-  let ac = col.madCount;
+  const counts = new Float64Array(4);
+  counts[0] = col.medCount;
+  counts[1] = col.madCount;
   for (let from = 0; from < n; from += COUNT_CHUNK) {
     const to = Math.min(n, from + COUNT_CHUNK);
-    col.ensureRoom(mc, ac, to - from);
-    const med = col.medBuf;
-    const mad = col.madBuf;
-    for (let i = from; i < to; i++) {
-      const rho = weights ? Math.sqrt(weights[i]) * residuals[i] : residuals[i];
-      const belowMed = +(rho <= medLo);
-      medBelow += belowMed;
-      const am = Math.abs(rho - centre);
-      const belowMad = +(am <= madLo);
-      madBelow += belowMad;
-      med[mc] = rho;
-      mc += +(rho < medHi) - belowMed;
-      mad[ac] = rho;
-      ac += +(am < madHi) - belowMad;
-    }
+    col.ensureRoom(counts[0], counts[1], to - from);
+    if (weights) countChunkWeighted(residuals, weights, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
+    else countChunk(residuals, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
   }
-  col.medCount = mc;
-  col.madCount = ac;
-  col.medBelow = medBelow;
-  col.madBelow = madBelow;
+  col.medCount = counts[0];
+  col.madCount = counts[1];
+  col.medBelow = counts[2];
+  col.madBelow = counts[3];
+}
+
+/** counts = [kept in the median window, kept in the MAD window, below the median window, below the MAD window]. */
+function countChunk(
+  rho: Float64Array, med: Float64Array, mad: Float64Array, medLo: number, medHi: number, centre: number, madLo: number, madHi: number,
+  from: number, to: number, counts: Float64Array,
+): void {
+  let mc = counts[0];
+  let ac = counts[1];
+  let medBelow = 0;
+  let madBelow = 0;
+  for (let i = from; i < to; i++) {
+    const v = rho[i];
+    const belowMed = +(v <= medLo);
+    medBelow += belowMed;
+    const am = Math.abs(v - centre);
+    const belowMad = +(am <= madLo);
+    madBelow += belowMad;
+    med[mc] = v;
+    mc += +(v < medHi) - belowMed;
+    mad[ac] = v;
+    ac += +(am < madHi) - belowMad;
+  }
+  counts[0] = mc;
+  counts[1] = ac;
+  counts[2] += medBelow;
+  counts[3] += madBelow;
+}
+
+function countChunkWeighted(
+  residuals: Float64Array, weights: Float64Array, med: Float64Array, mad: Float64Array, medLo: number, medHi: number, centre: number,
+  madLo: number, madHi: number, from: number, to: number, counts: Float64Array,
+): void {
+  let mc = counts[0];
+  let ac = counts[1];
+  let medBelow = 0;
+  let madBelow = 0;
+  for (let i = from; i < to; i++) {
+    const v = Math.sqrt(weights[i]) * residuals[i];
+    const belowMed = +(v <= medLo);
+    medBelow += belowMed;
+    const am = Math.abs(v - centre);
+    const belowMad = +(am <= madLo);
+    madBelow += belowMad;
+    med[mc] = v;
+    mc += +(v < medHi) - belowMed;
+    mad[ac] = v;
+    ac += +(am < madHi) - belowMad;
+  }
+  counts[0] = mc;
+  counts[1] = ac;
+  counts[2] += medBelow;
+  counts[3] += madBelow;
 }
 
 /** Rows between capacity checks of the branch-free counting pass. */
