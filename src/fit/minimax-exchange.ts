@@ -181,8 +181,9 @@ function dualWeights(rows: CompactRows, ref: Int32Array, sgn: Int8Array): Float6
 /**
  * A first dual-feasible reference: p rows chosen greedily by the largest component orthogonal to
  * the rows already chosen (spread rows: the ends of the latitude range first), then the row whose
- * expansion μ = A_B⁻ᵀaⱼ has the largest min|μ_k| (all non-zero: the null vector (μ, −1) of the
- * (p+1)×p reference matrix has no zero entry); the signs are the null vector's.
+ * expansion μ = A_B⁻ᵀaⱼ has the largest min|μ_k| (preferably all non-zero: the null vector
+ * (μ, −1) of the (p+1)×p reference matrix then has no zero entry); the signs are the null
+ * vector's.
  */
 function initialReference(rows: CompactRows, ref: Int32Array, sgn: Int8Array): boolean {
   const { m, p, A } = rows;
@@ -212,8 +213,11 @@ function initialReference(rows: CompactRows, ref: Int32Array, sgn: Int8Array): b
   }
   const lu = factorLu(basis, p);
   if (lu.singular) return false;
+  // A row with some μ_k = 0 (a repeated abscissa, a non-Haar design) still gives a nonsingular,
+  // dual-feasible (degenerate) reference: λ_k = 0 there and D stays invertible, since the null
+  // space of the reference rows is spanned by ν = (μ, −1) and Σ|ν_k| ≠ 0.
   let bestRow = -1;
-  let bestMin = 0;
+  let bestMin = -1;
   let bestMu: Float64Array | null = null;
   const aj = new Float64Array(p);
   for (let i = 0; i < m; i++) {
@@ -229,10 +233,10 @@ function initialReference(rows: CompactRows, ref: Int32Array, sgn: Int8Array): b
     }
   }
   if (bestRow < 0 || !bestMu) return false;
-  // Null vector ν = (μ, −1): Σ_k μ_k a_k − a_j = 0; signs σ = sign(ν).
+  // Null vector ν = (μ, −1): Σ_k μ_k a_k − a_j = 0; signs σ = sign(ν) (+ where ν_k = 0).
   for (let k = 0; k < p; k++) {
     ref[k] = chosen[k];
-    sgn[k] = bestMu[k] > 0 ? 1 : -1;
+    sgn[k] = bestMu[k] >= 0 ? 1 : -1;
   }
   ref[p] = bestRow;
   sgn[p] = -1;
