@@ -15,7 +15,7 @@ export default defineConfig({
   define: { __ARCFIELD_BUILD_ID__: JSON.stringify(buildId()) },
   build: {
     // @ionic/core's per-component modules are side-effect free in practice but not marked so;
-    // declaring them so lets the bundler drop unused components (/work/shared/toolchain.md §1).
+    // declaring them so lets the bundler drop unused components (the team notes (shared/toolchain.md) §1).
     rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !/[\\/]@ionic[\\/]core[\\/]components[\\/]ion-[^\\/]+\.js$/.test(id) } },
   },
   test: {

@@ -4,7 +4,7 @@
 // Run: npx tsx scripts/gen-geodesy-fixtures.ts
 //
 // Independent of the code under test on purpose: the defining constants are copied here from
-// /work/shared/check-values.md (the test checks that src/geodesy carries the same numbers), and
+// the team notes (shared/check-values.md) (the test checks that src/geodesy carries the same numbers), and
 // every distance comes from GeographicLib's geodesic solver, never from src/geodesy.
 //   G(φ)      = Inverse(0, 0, φ, 0).s12, negated for φ < 0 (a geodesic along the meridian)
 //   arc       = Inverse(φ₁, 0, φ₂, 0).s12, signed positive northwards

@@ -1,4 +1,4 @@
-// Published constants (from /work/shared/check-values.md, each source named beside its check).
+// Published constants (from the team notes (shared/check-values.md), each source named beside its check).
 // Tolerances are half a unit of the last published digit.
 import { describe, expect, it } from 'vitest';
 import {

@@ -1,5 +1,5 @@
 // Build-time PWA settings (read by vite.config.ts; no browser code here). Decisions, with the
-// field traps they answer (see /work/shared/field-traps.md and DEVELOPERS.md):
+// field traps they answer (see the team notes (shared/field-traps.md) and DEVELOPERS.md):
 //  - precache the whole shell, so the app opens with no signal; the build fails when
 //    Workbox would skip a file for size (scripts/build.js, R-2.6), so the 2 MiB default is kept;
 //  - navigation fallback to index.html for deep links, but never for the sync API;
