@@ -169,7 +169,8 @@ export const SCALE_SAMPLE_ROWS = 16384;
 export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Array | undefined): number {
   const n = residuals.length;
   if (n > DIRECT_SCALE_MAX_ROWS) {
-    const count = Math.min(n, SCALE_SAMPLE_ROWS);
+    // A quarter of the rows at most: below that the windows would hold most of them anyway.
+    const count = Math.min(n >> 2, SCALE_SAMPLE_ROWS);
     const sample = new Float64Array(count);
     const stride = n / count;
     for (let k = 0; k < count; k++) {
