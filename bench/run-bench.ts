@@ -169,7 +169,7 @@ async function main(): Promise<void> {
   };
   const report: BenchReport = {
     format: 'arcfield-bench-results', version: 1, startedAt, finishedAt: new Date().toISOString(),
-    command: `npm run bench -- ${process.argv.slice(2).join(' ')}`.trim(),
+    command: process.argv.length > 2 ? `npm run bench -- ${process.argv.slice(2).join(' ')}` : 'npm run bench',
     ...base,
     machine, loadAverageAtEnd: loadavg().map((v) => Math.round(v * 100) / 100), rounds,
     rules: {
