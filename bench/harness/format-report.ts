@@ -59,7 +59,7 @@ export function peersTable(report: Pick<BenchReport, 'peers' | 'settings'>): { t
       const r = runs.find((x) => x.n === n);
       if (!r) return '';
       if (r.status === 'ok') return formatSeconds(r.medianSeconds) + (r.converged === false ? ' (not conv.)' : '');
-      notes.add(`${label}, p = ${p}, n = ${formatSize(n)}: ${r.note}`);
+      notes.add(`${estimator}, ${label}, p = ${p}, n = ${formatSize(n)}: ${r.note}`);
       return SHORT[r.status];
     })];
   });
