@@ -11,9 +11,8 @@
 // ranks fall inside the windows (checked, see `finish`); otherwise the caller's full residuals
 // are selected directly, so a missed window costs time, never accuracy.
 
-/** 1/Φ⁻¹(3/4): the MAD is then consistent for σ at the normal. */
-export const MAD_CONSISTENCY = 1 / 0.6744897501960817;
 /** Up to this many rows the scale is selected directly from all residuals (cheap enough). */
+import { MAD_CONSISTENCY } from './robust-scale.ts';
 export const DIRECT_SCALE_MAX_ROWS = 16384;
 /**
  * Half-width of the windows in standard deviations of a sample quantile's rank (√(u(1−u)/m) with
