@@ -11,8 +11,9 @@
 // ranks fall inside the windows (checked, see `finish`); otherwise the caller's full residuals
 // are selected directly, so a missed window costs time, never accuracy.
 
-/** Up to this many rows the scale is selected directly from all residuals (cheap enough). */
 import { MAD_CONSISTENCY } from './robust-scale.ts';
+
+/** Up to this many rows the scale is selected directly from all residuals (cheap enough). */
 export const DIRECT_SCALE_MAX_ROWS = 16384;
 /**
  * Half-width of the windows in standard deviations of a sample quantile's rank (√(u(1−u)/m) with
