@@ -14,6 +14,9 @@ export default defineConfig({
   ],
   define: { __ARCFIELD_BUILD_ID__: JSON.stringify(buildId()) },
   build: {
+    // dist/.vite/manifest.json: the chunk import graph that bench/app-size.ts reads to size the
+    // initial transfer (entry + static imports + CSS) apart from the lazily loaded chunks.
+    manifest: true,
     // @ionic/core's per-component modules are side-effect free in practice but not marked so;
     // declaring them so lets the bundler drop unused components (the team notes (shared/toolchain.md) §1).
     rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !/[\\/]@ionic[\\/]core[\\/]components[\\/]ion-[^\\/]+\.js$/.test(id) } },
