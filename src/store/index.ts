@@ -16,6 +16,9 @@ export {
   readingPage, countReadings, exclusionsOf, loadCampaignRecords, type CampaignOverview, type ReadingPage, type ReadingKind,
 } from './campaign-queries.ts';
 export { importCampaignFile, type ImportSummary } from './import-campaign.ts';
+export { importRows, IMPORT_WATCHDOG_MS_PER_RECORD, type ImportRowsOptions, type ImportRowsSummary } from './import-rows.ts';
+export { planImport, sameRecord, IMPORT_COLLECTIONS, type ImportCollection, type ImportCounts, type ImportPlan } from './import-plan.ts';
+export { loadCampaignSnapshot, type CampaignSnapshot } from './campaign-snapshot.ts';
 export { StorageError, classifyStorageError, errorNameChain, type StorageErrorKind } from './storage-error.ts';
 export {
   storageStatus, requestPersistenceOnce, browserStorage, STORAGE_WARN_FRACTION, SETTING_PERSIST,
