@@ -6,8 +6,8 @@
 // station can be given their covariance instead of being treated as independent.
 import { ellipsoidById, type Ellipsoid } from '../geodesy/index.ts';
 import type { CampaignRecords, LatitudeKind } from './records.ts';
-import { reduceStationLatitudes } from './station-latitudes.ts';
-import { prepareArcs } from './prepare-arcs.ts';
+import { reduceStationLatitudes, type StationLatitude } from './station-latitudes.ts';
+import { prepareArcs, type PreparedArc } from './prepare-arcs.ts';
 
 export interface NetworkStation {
   code: string;
@@ -70,6 +70,19 @@ export function arcNetwork(records: CampaignRecords, options: NetworkOptions = {
   const latitudes = reduceStationLatitudes(records.stations, records.latitudeReadings, {
     excludedIds: excluded, suspectThreshold: options.suspectThreshold ?? records.settings?.suspectThreshold,
   });
+  const prepared = prepareArcs(records.arcReadings, records.stations, latitudes, kind, 'propagated', reference, excluded);
+  return networkFromReductions(records, latitudes, prepared, kind, reference, excluded);
+}
+
+/**
+ * The network from reductions already made (solveCampaign's own station latitudes and prepared
+ * arcs), so the correlated fit sees exactly the numbers the engine reduced. `excluded` holds the
+ * excluded reading ids (for the repeats' median sigma).
+ */
+export function networkFromReductions(
+  records: Pick<CampaignRecords, 'latitudeReadings' | 'arcReadings'>, latitudes: readonly StationLatitude[], prepared: readonly PreparedArc[],
+  kind: LatitudeKind, reference: Ellipsoid, excluded: ReadonlySet<string>,
+): ArcNetwork {
   const stations: NetworkStation[] = [];
   const index = new Map<string, number>();
   for (const s of latitudes) {
@@ -82,7 +95,6 @@ export function arcNetwork(records: CampaignRecords, options: NetworkOptions = {
       readingSigmaArcsec: median(used.map((r) => r.sigmaArcsec)), spreadArcsec: est.spreadArcsec,
     });
   }
-  const prepared = prepareArcs(records.arcReadings, records.stations, latitudes, kind, 'propagated', reference, excluded);
   const byId = new Map(records.arcReadings.map((a) => [a.id, a]));
   const arcs: NetworkArc[] = [];
   const leftOut: ArcNetwork['leftOut'] = [];

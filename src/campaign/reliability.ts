@@ -8,6 +8,7 @@
 //     leverage     hᵢ = 1 − rᵢ
 //     w-test       wᵢ = (P v)ᵢ / √(P Q_vv P)ᵢᵢ
 //     MDB          ∇ᵢ = δ₀ / √(P Q_vv P)ᵢᵢ   metres of distance, δ₀ = 4.13 (α₀ = 0.001, β₀ = 0.80)
+// (computed in gls-diagnostics.ts, shared with solveCampaign's own least squares).
 // With a diagonal Σ these reduce to the textbook rᵢ = 1 − hᵢᵢ and ∇ᵢ = δ₀σᵢ/√rᵢ. They are
 // properties of the geometry and the a-priori sigmas (σ₀ = 1), so they are computed on the rigorous
 // model whatever model or estimator the campaign displays.
@@ -27,7 +28,7 @@ import type { CampaignResult } from './result.ts';
 import { solveCampaign } from './solve-campaign.ts';
 import { arcNetwork, type NetworkOptions } from './reliability-network.ts';
 import { fitCorrelatedArcs, type CorrelatedFit } from './reliability-gls.ts';
-import { times } from './reliability-linear-algebra.ts';
+import { glsDiagnostics } from './gls-diagnostics.ts';
 
 const RAD_PER_ARCSEC = Math.PI / 648000;
 
@@ -95,20 +96,10 @@ export function campaignReliability(records: CampaignRecords, options: Reliabili
 
   // Arc numbers from the GLS.
   const arcNumbers = new Map<string, { r: number; w: number; mdb: number }>();
-  if (fit.design && fit.weightMatrix && fit.covarianceApriori) {
-    const { n, J, sigma } = fit.design;
-    const P = fit.weightMatrix;
-    const JQ = times(J, fit.covarianceApriori, n, 2, 2);
-    const Qvv = new Float64Array(n * n);
-    for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) Qvv[i * n + k] = sigma[i * n + k] - (JQ[2 * i] * J[2 * k] + JQ[2 * i + 1] * J[2 * k + 1]);
-    const R = times(Qvv, P, n, n, n);
-    const PQP = times(P, R, n, n, n);
-    const Pv = times(P, fit.residualsM, n, n, 1);
+  if (fit.design && fit.factor && fit.covarianceApriori) {
+    const d = glsDiagnostics(fit.design.J, 2, fit.covarianceApriori, fit.design.sigma, fit.factor, fit.residualsM);
     network.arcs.forEach((arc, i) => {
-      const r = R[i * n + i];
-      const d = PQP[i * n + i];
-      const controlled = r > REDUNDANCY_FLOOR && d > 0;
-      arcNumbers.set(arc.id, { r, w: controlled ? Pv[i] / Math.sqrt(d) : NaN, mdb: controlled ? MDB_NONCENTRALITY / Math.sqrt(d) : NaN });
+      arcNumbers.set(arc.id, { r: d.redundancy[i], w: d.wTest[i], mdb: d.minimalDetectableBias[i] });
     });
   }
 

@@ -8,7 +8,7 @@
 // the fit than parameters → 'too-few-arcs'; all arcs at one value of sin²φ_mid → 'one-latitude'
 // (the slope, or f, is undetermined); otherwise the fit layer's 'rank-deficient' (scaled pivot
 // test) or 'not-converged' (iteration cap; numbers shown with the warning).
-import { ellipsoidById, meridianDistancePerUnitA } from '../geodesy/index.ts';
+import { ellipsoidById } from '../geodesy/index.ts';
 import { chiSquareUpperTail, leastSquaresDiagnostics } from '../fit/index.ts';
 import type { FitResult, LinearProblem } from '../fit/types.ts';
 import { InputError } from '../errors.ts';
@@ -17,15 +17,20 @@ import {
   ESTIMATOR_IDS, LATITUDE_KINDS, MODEL_IDS, WEIGHTING_IDS,
   type CampaignRecords, type EstimatorId, type LatitudeKind, type ModelId, type WeightingId,
 } from './records.ts';
-import type { CampaignResult, Coefficient, Figure, FitQuality, ReadingResult, SolveOptions, SolveStatus, StationSummary } from './result.ts';
+import type { CampaignResult, FitQuality, ReadingResult, SolveOptions, SolveStatus, StationSummary } from './result.ts';
 import { reduceStationLatitudes, type StationLatitude } from './station-latitudes.ts';
 import { MIN_ARC_SPAN_DEG, prepareArcs, type PreparedArc } from './prepare-arcs.ts';
 import { fitEllipsoidToArcs } from './rigorous-fit.ts';
-import { DEGREE_COEFFICIENT_NAMES, fitDegreeModel } from './degree-model.ts';
+import { fitDegreeModel } from './degree-model.ts';
 import { degreeFigure, ellipsoidFigure } from './figure-uncertainty.ts';
 import { degreeModelError } from './model-error.ts';
 import { flagResiduals } from './residual-flags.ts';
 import { formatSigma } from './format-sigma.ts';
+import { networkFromReductions, type ArcNetwork } from './reliability-network.ts';
+import { glsDegreeOutcome, glsEllipsoidOutcome } from './correlated-fit.ts';
+import {
+  degreeCoefficients, degreeResidual, ellipsoidCoefficients, ellipsoidResidual, finiteOrNull, noFit, type ArcFitNumbers, type FitOutcome,
+} from './fit-outcome.ts';
 
 export const DEFAULT_SUSPECT_THRESHOLD = 3;
 export const DEFAULT_REFERENCE_ELLIPSOID = 'wgs84';
@@ -40,84 +45,107 @@ function pick<T extends string>(field: string, value: T | undefined, fallback: T
   return v;
 }
 
-interface FitOutcome {
-  status: SolveStatus;
-  message: string;
-  coefficients: Coefficient[];
-  figure: Figure | null;
-  /** Residual and weight of every prepared arc that has geometry (null otherwise). */
-  residualOf: (arc: PreparedArc) => number;
-  weightOf: (arc: PreparedArc) => number;
-  problem: LinearProblem | null;
-  fit: FitResult | null;
-  objective: number;
-  iterations: number;
-  converged: boolean;
-  reason: string;
-  p: number;
+/** Any station used by two or more arcs in the fit: their rows are then correlated. */
+function sharesStation(inFit: readonly PreparedArc[]): boolean {
+  const seen = new Set<string>();
+  for (const a of inFit) {
+    for (const code of [a.fromStation, a.toStation]) {
+      if (seen.has(code)) return true;
+      seen.add(code);
+    }
+  }
+  return false;
 }
 
-const finiteOrNull = (v: number | null | undefined): number | null => (v !== null && v !== undefined && Number.isFinite(v) ? v : null);
+/**
+ * The fit of the chosen model and estimator. Least squares under `propagated` weights is the
+ * generalised least squares with the full covariance of the arcs (correlated-fit.ts), started for
+ * the rigorous model from the independent-rows fit below; everything else is the independent-rows
+ * fit (robust estimators are not whitened: see DEVELOPERS.md "Correlated arcs").
+ */
+function runFit(
+  model: ModelId, estimator: EstimatorId, weighting: WeightingId, inFit: PreparedArc[], network: () => ArcNetwork, previous: CampaignResult | undefined,
+): FitOutcome {
+  const independent = runIndependentFit(model, estimator, inFit, previous);
+  const correlated = sharesStation(inFit);
+  if (weighting !== 'propagated') return independent;
+  if (estimator !== 'least-squares') {
+    return correlated
+      ? { ...independent, note: `the ${estimator} fit treats arcs that share a station as independent (a robust fit is not whitened with the full arc covariance, which would smear a blunder over the neighbouring arcs)` }
+      : independent;
+  }
+  if (independent.figure === null || independent.status === 'too-few-arcs' || independent.status === 'rank-deficient') return independent;
+  // Gauss–Newton needs a converged start (the independent-rows search did not find an optimum).
+  if (model === 'ellipsoid' && independent.status !== 'ok') {
+    return { ...independent, note: 'with no converged start the generalised least squares was not run: the arcs are treated as independent' };
+  }
+  const net = network();
+  if (net.arcs.length !== inFit.length) throw new InputError('network', net.arcs.length, `must hold the ${inFit.length} arcs in the fit`);
+  const gls = model === 'ellipsoid'
+    ? glsEllipsoidOutcome(net, { semiMajorAxisM: independent.figure.semiMajorAxisM, flattening: independent.figure.flattening }, independent.iterations, independent.reason)
+    : glsDegreeOutcome(net, inFit, model);
+  if ('fallback' in gls) return { ...independent, note: `${gls.fallback}: the arcs are treated as independent, so the standard errors ignore their shared stations` };
+  return gls;
+}
 
-function runFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[], previous: CampaignResult | undefined): FitOutcome {
-  const empty = { coefficients: [] as Coefficient[], figure: null, problem: null, fit: null, objective: 0, iterations: 0, converged: false } as const;
+function runIndependentFit(model: ModelId, estimator: EstimatorId, inFit: PreparedArc[], previous: CampaignResult | undefined): FitOutcome {
   const p = model === 'degree2' ? 3 : 2;
   const geo = inFit.map((a) => a.geometry).filter((g) => g !== null);
+  let problem: LinearProblem;
+  let fit: FitResult;
+  let outcome: FitOutcome;
   if (model === 'ellipsoid') {
     const r = fitEllipsoidToArcs(inFit.map((a, i) => ({
       id: a.id, latitude1Deg: geo[i].latitude1Deg, latitude2Deg: geo[i].latitude2Deg, distanceM: geo[i].reducedDistanceM, weight: geo[i].weightM,
     })), estimator, { warmStart: warmStartF(previous, model, estimator) });
-    if (r.status === 'too-few-rows' || r.status === 'rank-deficient') {
-      return { ...empty, status: r.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', message: r.reason, residualOf: () => 0, weightOf: () => 1, reason: r.reason, p };
-    }
+    if (r.status === 'too-few-rows' || r.status === 'rank-deficient') return noFit(r.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', r.reason, p);
     const { semiMajorAxisM: a, flattening: f } = r;
-    const cov = r.covariance;
-    const figure = ellipsoidFigure(a, f, cov);
-    const coefficients: Coefficient[] = [
-      { name: 'a', value: a, standardError: finiteOrNull(figure.semiMajorAxisStdM), unit: 'm' },
-      { name: 'inverseFlattening', value: 1 / f, standardError: finiteOrNull(figure.inverseFlatteningStd), unit: '' },
-    ];
-    return {
+    const figure = ellipsoidFigure(a, f, r.covariance);
+    problem = r.linearizedProblem;
+    fit = r.linearized;
+    outcome = {
       status: r.status === 'not-converged' ? 'not-converged' : 'ok',
       message: r.status === 'not-converged' ? `the search for f did not converge: ${r.reason}` : '',
-      coefficients, figure,
-      residualOf: (arc) => {
-        const g = arc.geometry;
-        if (!g) return 0;
-        return g.reducedDistanceM - a * Math.abs(meridianDistancePerUnitA(f, g.latitude2Deg) - meridianDistancePerUnitA(f, g.latitude1Deg));
-      },
+      coefficients: ellipsoidCoefficients(figure), figure,
+      residualOf: ellipsoidResidual(a, f),
       weightOf: (arc) => arc.geometry?.weightM ?? 1,
-      problem: r.linearizedProblem, fit: r.linearized,
-      objective: r.objective, iterations: r.iterations, converged: r.converged, reason: r.reason, p,
+      arcNumbers: new Map(), quadraticForm: null,
+      objective: r.objective, iterations: r.iterations, converged: r.converged, reason: r.reason, p, note: '',
+    };
+  } else {
+    const rows = geo.map((g) => g.row);
+    const warm = previous && previous.model === model && previous.estimator === estimator && previous.status === 'ok' &&
+      previous.coefficients.length === p ? Float64Array.from(previous.coefficients, (c) => c.value) : undefined;
+    ({ problem, fit } = fitDegreeModel(rows, model, estimator, warm ? { warmStart: { coefficients: warm } } : {}));
+    if (fit.status === 'too-few-rows' || fit.status === 'rank-deficient') return noFit(fit.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', fit.reason, p);
+    const beta = Array.from(fit.coefficients);
+    const cov = fit.covariance && fit.covariance.every(Number.isFinite) ? fit.covariance : null;
+    outcome = {
+      status: fit.converged ? 'ok' : 'not-converged',
+      message: fit.converged ? '' : `the ${estimator} iteration did not converge: ${fit.reason}`,
+      coefficients: degreeCoefficients(model, beta, cov), figure: degreeFigure(beta, cov, rows),
+      residualOf: degreeResidual(beta),
+      weightOf: (arc) => arc.geometry?.row.weight ?? 1,
+      arcNumbers: new Map(), quadraticForm: null,
+      objective: fit.objective, iterations: fit.iterations, converged: fit.converged, reason: fit.reason, p, note: '',
     };
   }
-  const rows = geo.map((g) => g.row);
-  const warm = previous && previous.model === model && previous.estimator === estimator && previous.status === 'ok' &&
-    previous.coefficients.length === p ? Float64Array.from(previous.coefficients, (c) => c.value) : undefined;
-  const { problem, fit } = fitDegreeModel(rows, model, estimator, warm ? { warmStart: { coefficients: warm } } : {});
-  if (fit.status === 'too-few-rows' || fit.status === 'rank-deficient') {
-    return { ...empty, status: fit.status === 'too-few-rows' ? 'too-few-arcs' : 'rank-deficient', message: fit.reason, residualOf: () => 0, weightOf: () => 1, reason: fit.reason, p };
-  }
-  const beta = Array.from(fit.coefficients);
-  const cov = fit.covariance && fit.covariance.every(Number.isFinite) ? fit.covariance : null;
-  const figure = degreeFigure(beta, cov, rows);
-  const names = DEGREE_COEFFICIENT_NAMES[model];
-  const coefficients: Coefficient[] = names.map((name, j) => ({
-    name, value: beta[j], standardError: cov ? finiteOrNull(Math.sqrt(cov[j * p + j])) : null, unit: 'm/degree',
-  }));
-  return {
-    status: fit.converged ? 'ok' : 'not-converged',
-    message: fit.converged ? '' : `the ${estimator} iteration did not converge: ${fit.reason}`,
-    coefficients, figure,
-    residualOf: (arc) => {
-      const row = arc.geometry?.row;
-      if (!row) return 0;
-      return row.y - (beta[0] + beta[1] * row.x + (p === 3 ? beta[2] * row.x * row.x : 0));
-    },
-    weightOf: (arc) => arc.geometry?.row.weight ?? 1,
-    problem, fit,
-    objective: fit.objective, iterations: fit.iterations, converged: fit.converged, reason: fit.reason, p,
-  };
+  // Independent rows: z = √w·r / scale with the row weight; least squares adds the diagonal-weight diagnostics.
+  const diag = estimator === 'least-squares' && problem.n > problem.p ? leastSquaresDiagnostics(problem, fit) : null;
+  let quadraticForm = 0;
+  inFit.forEach((arc, k) => {
+    const w = outcome.weightOf(arc);
+    quadraticForm += w * outcome.residualOf(arc) ** 2;
+    const numbers: ArcFitNumbers = { flagWeight: w, inScale: true };
+    if (diag) {
+      numbers.redundancy = finiteOrNull(diag.redundancy[k]) ?? undefined;
+      numbers.wTest = finiteOrNull(diag.wTest[k]) ?? undefined;
+      numbers.minimalDetectableBias = finiteOrNull(diag.minimalDetectableBias[k]) ?? undefined;
+    }
+    outcome.arcNumbers.set(arc.id, numbers);
+  });
+  if (estimator === 'least-squares') outcome.quadraticForm = quadraticForm;
+  return outcome;
 }
 
 /** f and σ_f of a previous ellipsoid result with the same estimator, for the warm start. */
@@ -165,7 +193,7 @@ function latitudeReadingResults(latitudes: readonly StationLatitude[], order: re
   return order.map((id) => byId.get(id)).filter((r): r is ReadingResult => r !== undefined);
 }
 
-function quality(residuals: readonly number[], whitened: readonly number[], unit: string, outcome: FitOutcome, weighting: WeightingId, estimator: EstimatorId): FitQuality {
+function quality(residuals: readonly number[], unit: string, outcome: FitOutcome, weighting: WeightingId, estimator: EstimatorId): FitQuality {
   const n = residuals.length;
   if (n === 0) return { rms: 0, mad: 0, maxAbsResidual: 0, unit, varianceFactor: null, chiSquare: null };
   const rms = Math.sqrt(residuals.reduce((s, r) => s + r * r, 0) / n);
@@ -177,8 +205,9 @@ function quality(residuals: readonly number[], whitened: readonly number[], unit
   const dof = n - outcome.p;
   let varianceFactor: number | null = null;
   let chiSquare: FitQuality['chiSquare'] = null;
-  if (estimator === 'least-squares' && dof > 0) {
-    const statistic = whitened.reduce((s, z) => s + z * z, 0);
+  if (estimator === 'least-squares' && dof > 0 && outcome.quadraticForm !== null) {
+    // vᵀPv: Σwr² for independent rows, vᵀΣ⁻¹v for the generalised least squares.
+    const statistic = outcome.quadraticForm;
     varianceFactor = statistic / dof;
     // The global test needs a-priori sigmas; with equal weights σ₀² is only the residual variance.
     if (weighting === 'propagated') {
@@ -217,20 +246,18 @@ export function solveCampaign(records: CampaignRecords, options: SolveOptions = 
   } else if (Math.max(...xs) - Math.min(...xs) < SAME_X_TOLERANCE) {
     early = { status: 'one-latitude', message: `every arc in the fit is centred on the same latitude (sin²φ equal): the change of degree length with latitude, hence the flattening, is undetermined; observe arcs at other latitudes` };
   }
-  const outcome: FitOutcome = early
-    ? { ...early, coefficients: [], figure: null, residualOf: () => 0, weightOf: () => 1, problem: null, fit: null, objective: 0, iterations: 0, converged: false, reason: early.message, p }
-    : runFit(model, estimator, inFit, options.previous);
+  const network = (): ArcNetwork => networkFromReductions(records, latitudes, arcs, kind, reference, excluded);
+  const outcome: FitOutcome = early ? noFit(early.status, early.message, p) : runFit(model, estimator, weighting, inFit, network, options.previous);
   const fitted = outcome.figure !== null;
 
   // Arc residuals (excluded arcs too, against the fit they did not enter), flags and hints.
   const withGeometry = arcs.map((a) => a.geometry !== null);
   const residuals = arcs.map((a) => (fitted && a.geometry ? outcome.residualOf(a) : 0));
-  const weights = arcs.map((a) => outcome.weightOf(a));
-  const flags = flagResiduals(residuals, weights, arcs.map((a, i) => withGeometry[i] && !a.excluded), weighting, threshold);
-  const diag = fitted && estimator === 'least-squares' && outcome.problem && outcome.fit && outcome.problem.n > outcome.problem.p
-    ? leastSquaresDiagnostics(outcome.problem, outcome.fit) : null;
+  // Standardized by the fit's own rule (fit-outcome.ts ArcFitNumbers); excluded arcs by their row weight.
+  const numbers = arcs.map((a, k) => (withGeometry[k] && !a.excluded ? outcome.arcNumbers.get(a.id) : undefined));
+  const flagWeights = arcs.map((a, k) => numbers[k]?.flagWeight ?? outcome.weightOf(a));
+  const flags = flagResiduals(residuals, flagWeights, arcs.map((a, k) => withGeometry[k] && !a.excluded && (numbers[k]?.inScale ?? true)), weighting, threshold);
   const unit = model === 'ellipsoid' ? 'm' : 'm/degree';
-  let fitIndex = 0;
   const arcResults: ReadingResult[] = arcs.map((a, i) => {
     const used = fitted && withGeometry[i] && !a.excluded;
     const z = fitted && withGeometry[i] ? flags.standardized[i] : 0;
@@ -244,23 +271,22 @@ export function solveCampaign(records: CampaignRecords, options: SolveOptions = 
       id: a.id, kind: 'arc', residual: residuals[i], residualUnit: unit, standardizedResidual: z,
       suspect, excluded: a.excluded, hint, usedInFit: used, station: label,
     };
-    if (used && diag) {
-      result.redundancy = finiteOrNull(diag.redundancy[fitIndex]) ?? undefined;
-      result.wTest = finiteOrNull(diag.wTest[fitIndex]) ?? undefined;
-      result.minimalDetectableBias = finiteOrNull(diag.minimalDetectableBias[fitIndex]) ?? undefined;
+    const nums = numbers[i];
+    if (used && nums) {
+      if (nums.redundancy !== undefined) result.redundancy = nums.redundancy;
+      if (nums.wTest !== undefined && Number.isFinite(nums.wTest)) result.wTest = nums.wTest;
+      if (nums.minimalDetectableBias !== undefined && Number.isFinite(nums.minimalDetectableBias)) result.minimalDetectableBias = nums.minimalDetectableBias;
     }
-    if (withGeometry[i] && !a.excluded) fitIndex++;
     return result;
   });
 
   const usedResiduals = arcResults.filter((r) => r.usedInFit).map((r) => r.residual);
-  const usedWhitened = arcs.map((_, i) => residuals[i] * Math.sqrt(weights[i])).filter((_, i) => arcResults[i].usedInFit);
   const readings = [...latitudeReadingResults(latitudes, records.latitudeReadings.map((r) => r.id)), ...arcResults];
   const modelError = model !== 'ellipsoid' && fitted
     ? degreeModelError(inFit.map((a) => ({ latitude1Deg: a.geometry?.latitude1Deg ?? 0, latitude2Deg: a.geometry?.latitude2Deg ?? 0 })), model, reference, reference.name)
     : null;
 
-  const notes = [outcome.message];
+  const notes = [outcome.message, outcome.note];
   if (fitted && flags.note) notes.push(flags.note);
   const unusable = arcs.filter((a) => a.geometry === null).length;
   if (unusable > 0) notes.push(`${unusable} arc${unusable === 1 ? '' : 's'} could not enter the fit (see their hints)`);
@@ -282,7 +308,7 @@ export function solveCampaign(records: CampaignRecords, options: SolveOptions = 
     figure: outcome.figure,
     stations: stationSummaries(latitudes, kind),
     readings,
-    quality: fitted ? quality(usedResiduals, usedWhitened, unit, outcome, weighting, estimator) : { rms: 0, mad: 0, maxAbsResidual: 0, unit, varianceFactor: null, chiSquare: null },
+    quality: fitted ? quality(usedResiduals, unit, outcome, weighting, estimator) : { rms: 0, mad: 0, maxAbsResidual: 0, unit, varianceFactor: null, chiSquare: null },
     modelError,
     suspectThreshold: threshold,
   };

@@ -43,8 +43,10 @@ describe('rigorous ellipsoid fit', () => {
     within(r.figure?.quadrantM ?? 0, 10001965.7293, 2e-3, 'm', 'quadrant', { source: 'NIMA TR8350.2 (from memory)' });
   });
 
-  it('is a least-squares optimum: the objective with GeographicLib distances rises in every direction', () => {
-    // Brute force around the reported (a, f): recompute Σw r² with GeographicLib for perturbed figures.
+  it('is a least-squares optimum: the GLS objective with GeographicLib distances rises in every direction', () => {
+    // Brute force around the reported (a, f): recompute vᵀΣ⁻¹v with GeographicLib for perturbed
+    // figures, Σ built here from its definition (arc sigma on the diagonal, −M(φ)²σ_φ² between
+    // consecutive arcs that share a station; M(φ) = a(1−e²)/(1−e²sin²φ)^{3/2} on WGS 84).
     const rec = exactCampaign({ a: WGS84.a, f: 1 / WGS84.invf, latitudesDeg: LATS, seed: 7, sigmaArcsec: 0.2, sigmaM: 0.5 });
     const r = solveCampaign(rec, { model: 'ellipsoid', estimator: 'least-squares' });
     const a = r.figure?.semiMajorAxisM ?? 0;
@@ -52,13 +54,32 @@ describe('rigorous ellipsoid fit', () => {
     const arcSigma = new Map(r.readings.filter((x) => x.kind === 'arc').map((x) => [x.id, x]));
     const lat = new Map(r.stations.map((s) => [s.code, s.latitudeDeg]));
     const sig = new Map(r.stations.map((s) => [s.code, s.sigmaArcsec]));
-    const objective = (aa: number, ff: number): number => rec.arcReadings.reduce((sum, arc) => {
-      const l1 = lat.get(arc.fromStation) ?? 0;
-      const l2 = lat.get(arc.toStation) ?? 0;
-      const m = 6.36e6 * Math.PI / 648000; // metres per arcsecond, ample for weights
-      const s2 = arc.sigmaM ** 2 + (m * (sig.get(arc.fromStation) ?? 0)) ** 2 + (m * (sig.get(arc.toStation) ?? 0)) ** 2;
-      return sum + (arc.distanceM - geographicLibArcM(aa, ff, l1, l2)) ** 2 / s2;
-    }, 0);
+    const e2 = (2 - 1 / WGS84.invf) / WGS84.invf;
+    const mPerArcsec = (code: string): number => {
+      const sn = Math.sin(((lat.get(code) ?? 0) * Math.PI) / 180);
+      return ((WGS84.a * (1 - e2)) / (1 - e2 * sn * sn) ** 1.5) * Math.PI / 648000 * (sig.get(code) ?? 0);
+    };
+    const arcs = rec.arcReadings;
+    const n = arcs.length;
+    // Σ and its inverse by Gauss–Jordan (n = 10; independent of the engine's Cholesky).
+    const S = arcs.map((ai, i) => arcs.map((ak, k) => {
+      if (i === k) return ai.sigmaM ** 2 + mPerArcsec(ai.fromStation) ** 2 + mPerArcsec(ai.toStation) ** 2;
+      const shared = [ai.fromStation, ai.toStation].find((c) => c === ak.fromStation || c === ak.toStation);
+      if (shared === undefined) return 0;
+      const sameRole = (ai.fromStation === shared) === (ak.fromStation === shared);
+      return (sameRole ? 1 : -1) * mPerArcsec(shared) ** 2;
+    }));
+    const P = S.map((row, i) => [...row, ...row.map((_, k) => (i === k ? 1 : 0))]);
+    for (let c = 0; c < n; c++) {
+      const piv = P[c][c];
+      P[c] = P[c].map((v) => v / piv);
+      for (let i = 0; i < n; i++) if (i !== c) { const m = P[i][c]; P[i] = P[i].map((v, k) => v - m * P[c][k]); }
+    }
+    const W = P.map((row) => row.slice(n));
+    const objective = (aa: number, ff: number): number => {
+      const v = arcs.map((arc) => arc.distanceM - geographicLibArcM(aa, ff, lat.get(arc.fromStation) ?? 0, lat.get(arc.toStation) ?? 0));
+      return v.reduce((sum, vi, i) => sum + vi * v.reduce((t, vk, k) => t + W[i][k] * vk, 0), 0);
+    };
     expect(arcSigma.size).toBe(10);
     const base = objective(a, f);
     const sa = r.figure?.semiMajorAxisStdM ?? 1;
