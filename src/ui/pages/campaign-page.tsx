@@ -4,16 +4,47 @@ import {
   IonPage, IonTitle, IonToolbar,
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
+import { useMemo, useState } from 'react';
 import { useParams } from 'react-router-dom';
-import { countReadings, getCampaign, loadCampaignRecords, readingPage, stationsOf } from '../../store/index.ts';
+import { RECORD_TABLES } from '../../io/index.ts';
+import { countReadings, getCampaign, importRows, loadCampaignRecords, loadCampaignSnapshot, readingPage, stationsOf, type ImportRowsSummary } from '../../store/index.ts';
 import { LiveFitStrip } from '../components/index.ts';
 import { ReportAction } from '../decisions/report-action.tsx';
 import { campaignFileOf } from '../decisions/campaign-file-of.ts';
+import { CsvImportPanel, type CsvImportRequest } from '../decisions/csv-import-panel.tsx';
 import { formatLength } from '../format/index.ts';
 import { useAppSettings, useLiveFit, useServices } from '../live/index.ts';
 
 /** The campaign screen lists this many arcs inline; the rest are on the readings screen. */
 const INLINE_ARCS = 50;
+
+/**
+ * "Import CSV", opened on demand: only then are the campaign's records read (and re-read on every
+ * change while it is open). The records and their change-log position come from one read; the
+ * position goes back to importRows, which refuses a file checked against an older campaign. The
+ * live fit needs no nudge: the import's change-log rows move the sequence its liveQuery watches.
+ */
+function CsvImportSection({ cid }: { cid: string }) {
+  const { store } = useServices();
+  const [open, setOpen] = useState(false);
+  const snapshot = useLiveQuery(() => (open ? loadCampaignSnapshot(store.db, cid) : undefined), [store, cid, open]);
+  const file = useMemo(() => (snapshot ? campaignFileOf(snapshot.records) : undefined), [snapshot]);
+  const onImport = ({ result, table, mode, version, source }: CsvImportRequest): Promise<ImportRowsSummary> => importRows(store, cid, result.file, {
+    // GNSS fixes live inside latitude readings: replacing them changes readings, it removes none.
+    replace: mode === 'replace' && table !== 'gnss-fixes' ? [RECORD_TABLES[table].collection] : [],
+    expectedSeq: version, source: source || 'CSV file',
+  });
+  return (
+    <>
+      <div className="af-actions">
+        <IonButton expand="block" fill="outline" onClick={() => setOpen(!open)} data-testid="open-csv-import" aria-expanded={open}>
+          {open ? 'Close CSV import' : 'Import CSV'}
+        </IonButton>
+      </div>
+      {open && file && <CsvImportPanel campaign={file} version={snapshot?.seq} onImport={onImport} />}
+    </>
+  );
+}
 
 export function CampaignPage() {
   const { cid = '' } = useParams();
@@ -47,6 +78,7 @@ export function CampaignPage() {
           <IonButton expand="block" fill="outline" routerLink={`/campaigns/${cid}/sync`} data-testid="open-sync">Sync</IonButton>
         </div>
         <ReportAction loadCampaign={async () => { const r = await loadCampaignRecords(store.db, cid); return r ? campaignFileOf(r) : undefined; }} />
+        <CsvImportSection cid={cid} />
 
         <IonList data-testid="station-list">
           <IonListHeader><IonLabel>Stations ({stations?.length ?? '…'})</IonLabel></IonListHeader>
