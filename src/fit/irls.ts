@@ -9,12 +9,13 @@
 // answer is then the fixed-scale estimate at its final scale — what the reference tests compare.)
 // Close to the solution the steps switch to Newton's method on the same estimating equations,
 // each kept only if Σρ does not increase (otherwise IRLS resumes; NEWTON_SWITCH says why).
-// Buffers are allocated once per fit; an iteration allocates nothing.
+// Each iteration is one chunked pass over the data (residuals, ψ weights and normal equations
+// together); buffers are allocated once per fit and an iteration allocates nothing n-sized.
 import { InputError } from '../errors.ts';
-import { interceptColumn, noSolution, residualsOf } from './problem.ts';
+import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
 import { madScale } from './robust-scale.ts';
 import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
-import { accumulateNormal, cofactorDiagonal, cofactorMatrix, createNormalWorkspace, factorNormal, solveCorrection } from './weighted-normal.ts';
+import { addRows, cloneNormalWorkspace, cofactorDiagonal, cofactorMatrix, createNormalWorkspace, factorNormal, resetNormal, solveCorrection, type NormalWorkspace } from './weighted-normal.ts';
 
 /** A ρ function of the standardized residual u with its ψ = ρ′, ψ′ and IRLS weight ψ(u)/u. */
 export interface RhoFunction {
@@ -99,8 +100,24 @@ export function startScale(problem: LinearProblem, beta: Float64Array): number {
   return madScale(r);
 }
 
+/**
+ * Rows per chunk of a pass. Each pass computes a chunk's residuals, its ψ weights and its share of
+ * the normal equations while the chunk is in cache (4096·8 B = 32 KiB per buffer), so an
+ * iteration reads the data once and keeps no n-sized residual or weight arrays.
+ */
+export const IRLS_CHUNK_ROWS = 4096;
+
+/** Zero residuals for a chunk: XᵀWX alone (the right-hand side is not used). */
+const ZERO_ROWS = new Float64Array(IRLS_CHUNK_ROWS);
+
+/** n-sized arrays a caller can lend to the fit (the L1 start's residuals). */
+export interface IrlsBuffers {
+  residuals?: Float64Array;
+  robustWeights?: Float64Array;
+}
+
 /** Runs IRLS from `start` at the fixed scale `start.scale` (> 0, finite) on a validated problem with n ≥ p. */
-export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, options: FitOptions): FitResult {
+export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, options: FitOptions, lent: IrlsBuffers = {}): FitResult {
   const { n, p, y, weights } = problem;
   const tol = options.tolerance ?? IRLS_TOLERANCE;
   const maxIterations = options.maxIterations ?? IRLS_MAX_ITERATIONS;
@@ -111,23 +128,16 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const previous = new Float64Array(p);
   const intercept = interceptColumn(problem);
   const ws = createNormalWorkspace(problem, intercept);
-  const wsNewton = createNormalWorkspace(problem, intercept);
+  const wsNewton = cloneNormalWorkspace(ws);
   // floorⱼ = s/rmsⱼ: the change of βⱼ that moves the whitened fit by one scale unit on average;
   // relative change is measured against max(|βⱼ|, floorⱼ) so a coefficient near 0 can converge.
   const floor = new Float64Array(p);
   for (let j = 0; j < p; j++) floor[j] = s * Math.sqrt(n) * ws.scale[j];
-  const sw = new Float64Array(n);
   let yMax = 0;
-  for (let i = 0; i < n; i++) {
-    sw[i] = weights ? Math.sqrt(weights[i]) : 1;
-    yMax = Math.max(yMax, Math.abs(sw[i] * y[i]));
-  }
+  for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(weights ? Math.sqrt(weights[i]) * y[i] : y[i]));
   const rounding = IRLS_ROUNDING_FACTOR * Number.EPSILON * yMax;
-  const r = new Float64Array(n);
-  const v = new Float64Array(n);
-  const h = new Float64Array(n);
+  const chunk = new Chunk(problem);
   const side = new Uint8Array(n);
-  const sweepState: SweepState = { changed: false };
   const delta = new Float64Array(p);
   const qdiag = new Float64Array(p);
   const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
@@ -137,9 +147,12 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let lastWasNewton = false;
   let objectiveBefore = Infinity;
   while (stop.iterations < maxIterations) {
-    residualsOf(problem, beta, r);
-    const objective = rho.sweep(r, sw, s, v, h, side, sweepState);
-    if (lastWasNewton && rho.piecewiseQuadratic && !sweepState.changed) {
+    // One pass: Σρ and the side changes at β, with the IRLS normal equations and, when a Newton
+    // step is due, the Newton matrix beside them (so a failed Newton factor needs no second pass).
+    const planNewton = newtonAllowed && lastChange < NEWTON_SWITCH;
+    const pass = chunk.sweep(rho, beta, s, side, ws, planNewton ? wsNewton : null);
+    const objective = pass.objective;
+    if (lastWasNewton && rho.piecewiseQuadratic && !pass.changed) {
       // Exact: the step solved the quadratic that holds on this partition, and it still holds.
       stop.converged = true;
       stop.exact = true;
@@ -158,16 +171,11 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     objectiveBefore = objective;
     let used = ws;
     lastWasNewton = false;
-    if (newtonAllowed && lastChange < NEWTON_SWITCH) {
-      // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
-      accumulateNormal(wsNewton, problem, r, h, v);
-      if (factorNormal(wsNewton) >= IRLS_MIN_PIVOT) {
-        used = wsNewton;
-        lastWasNewton = true;
-      }
+    if (planNewton && factorNormal(wsNewton) >= IRLS_MIN_PIVOT) {
+      used = wsNewton;
+      lastWasNewton = true;
     }
     if (!lastWasNewton) {
-      accumulateNormal(ws, problem, r, v);
       const ratio = factorNormal(ws);
       if (!(ratio >= IRLS_MIN_PIVOT)) {
         const out = noSolution(rho.estimator, problem, 'rank-deficient',
@@ -196,7 +204,48 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       break;
     }
   }
-  return finish(problem, rho, start, beta, { sw, v, h, side, sweepState }, stop, ws);
+  return finish(problem, rho, start, beta, chunk, side, stop, ws, lent);
+}
+
+/** Σρ at β and whether any reading changed side of the ψ′ partition. */
+interface PassResult { objective: number; changed: boolean }
+
+/** Cache-sized buffers for the chunked passes, and the pass itself. */
+class Chunk {
+  readonly r = new Float64Array(IRLS_CHUNK_ROWS);
+  readonly v = new Float64Array(IRLS_CHUNK_ROWS);
+  readonly h = new Float64Array(IRLS_CHUNK_ROWS);
+  /** √wᵢ of the chunk (all 1 without prior weights: filled once). */
+  readonly sw = new Float64Array(IRLS_CHUNK_ROWS).fill(1);
+  readonly state: SweepState = { changed: false };
+  constructor(readonly problem: LinearProblem) {}
+
+  /** √w of rows start … start+m−1 into this.sw (nothing to do without prior weights). */
+  loadWeights(start: number, m: number): void {
+    const w = this.problem.weights;
+    if (w) for (let i = 0; i < m; i++) this.sw[i] = Math.sqrt(w[start + i]);
+  }
+
+  /** Residuals, ψ weights and Σρ at β chunk by chunk, accumulating IRLS (and Newton) normal equations. */
+  sweep(rho: RhoFunction, beta: Float64Array, s: number, side: Uint8Array, ws: NormalWorkspace, wsNewton: NormalWorkspace | null): PassResult {
+    const { problem, r, v, h, sw, state } = this;
+    const n = problem.n;
+    resetNormal(ws);
+    if (wsNewton) resetNormal(wsNewton);
+    let objective = 0;
+    let changed = false;
+    for (let start = 0; start < n; start += IRLS_CHUNK_ROWS) {
+      const m = Math.min(IRLS_CHUNK_ROWS, n - start);
+      this.loadWeights(start, m);
+      residualsRange(problem, beta, start, m, r);
+      objective += rho.sweep(m === IRLS_CHUNK_ROWS ? r : r.subarray(0, m), sw, s, v, h, side.subarray(start, start + m), state);
+      changed = changed || state.changed;
+      addRows(ws, problem, start, m, r, v);
+      // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
+      if (wsNewton) addRows(wsNewton, problem, start, m, r, h, v);
+    }
+    return { objective, changed };
+  }
 }
 
 interface Stop {
@@ -211,30 +260,39 @@ interface Stop {
   tol: number;
 }
 
-interface Buffers { sw: Float64Array; v: Float64Array; h: Float64Array; side: Uint8Array; sweepState: SweepState }
-
-function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, buf: Buffers,
-  stop: Stop, ws: ReturnType<typeof createNormalWorkspace>): FitResult {
+function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, chunk: Chunk, side: Uint8Array,
+  stop: Stop, ws: NormalWorkspace, lent: IrlsBuffers): FitResult {
   const { iterations, converged, atRounding, exact, change, tol, newtonSteps, rejected } = stop;
-  const { n, p } = problem;
-  const { sw, v, h } = buf;
+  const { n, p, weights } = problem;
   const s = start.scale;
-  const residuals = residualsOf(problem, beta);
-  const objective = rho.sweep(residuals, sw, s, v, h, buf.side, buf.sweepState);
-  // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
-  const robustWeights = new Float64Array(n);
+  const residuals = lent.residuals && lent.residuals.length === n ? lent.residuals : new Float64Array(n);
+  const robustWeights = lent.robustWeights && lent.robustWeights.length === n ? lent.robustWeights : new Float64Array(n);
+  const { v, h, sw, state } = chunk;
+  // One pass: the residuals and robust weights returned, Σρ, the sums of the covariance below,
+  // and XᵀWX (prior weights only) for it.
+  resetNormal(ws);
+  let objective = 0;
   let sumPsi2 = 0;
   let sumD = 0;
   let sumD2 = 0;
-  for (let i = 0; i < n; i++) {
-    const w2 = sw[i] * sw[i];
-    const wt = v[i] / w2;
-    robustWeights[i] = wt;
-    const ps = ((sw[i] * residuals[i]) / s) * wt;
-    sumPsi2 += ps * ps;
-    const d = h[i] / w2;
-    sumD += d;
-    sumD2 += d * d;
+  for (let c = 0; c < n; c += IRLS_CHUNK_ROWS) {
+    const len = Math.min(IRLS_CHUNK_ROWS, n - c);
+    const r = residuals.subarray(c, c + len);
+    residualsRange(problem, beta, c, len, r);
+    chunk.loadWeights(c, len);
+    objective += rho.sweep(r, sw, s, v, h, side.subarray(c, c + len), state);
+    // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
+    for (let i = 0; i < len; i++) {
+      const w2 = sw[i] * sw[i];
+      const wt = v[i] / w2;
+      robustWeights[c + i] = wt;
+      const ps = ((sw[i] * r[i]) / s) * wt;
+      sumPsi2 += ps * ps;
+      const d = h[i] / w2;
+      sumD += d;
+      sumD2 += d * d;
+    }
+    addRows(ws, problem, c, len, ZERO_ROWS, weights ? weights.subarray(c, c + len) : undefined);
   }
   const steps = newtonSteps > 0 ? ` (${newtonSteps} of them Newton steps${rejected ? `, ${rejected} rejected` : ''})` : '';
   const what = `${rho.estimator} (tuning ${rho.tuning}) by IRLS from ${start.from}, scale ${s.toPrecision(6)} held fixed`;
@@ -266,8 +324,6 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
     const varD = Math.max(0, sumD2 / n - m * m);
     const K = 1 + ((p / n) * varD) / (m * m);
     const factor = ((K * K * (sumPsi2 / (n - p))) / (m * m)) * s * s;
-    const zero = new Float64Array(n);
-    accumulateNormal(ws, problem, zero, undefined);
     if (factorNormal(ws) > 0) result.covariance = cofactorMatrix(ws).map((c) => c * factor);
   }
   return result;
@@ -301,6 +357,8 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
     }
   }
   let scale = options.scale;
+  const lent: IrlsBuffers = {};
+  let l1Scale: number | undefined;
   if (coefficients && scale === undefined && warm?.scale !== undefined && Number.isFinite(warm.scale) && warm.scale > 0) scale = warm.scale;
   if (!coefficients) {
     const l1 = robustStart(problem);
@@ -309,9 +367,17 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
     }
     coefficients = Float64Array.from(l1.coefficients);
     from = 'the least-absolute-deviations fit';
+    // The L1 fit's residual array is handed on: the MAD below reads it and the M-fit returns its
+    // own residuals in it, so the robust start costs no n-sized array of its own.
+    lent.residuals = l1.residuals;
+    if (Number.isFinite(l1.scale) && l1.scale >= 0) l1Scale = l1.scale;
   }
   from += warmNote;
-  if (scale === undefined) scale = startScale(problem, coefficients);
+  if (scale === undefined) {
+    // The L1 fit reports exactly this scale (the MAD of its whitened residuals, computed by
+    // simplex-residual-scale.ts without two full selections): reuse it, else compute it.
+    scale = from === 'the least-absolute-deviations fit' && l1Scale !== undefined ? l1Scale : startScale(problem, coefficients);
+  }
   if (scale === 0) {
     // More than half the whitened residuals of the start are exactly zero: the start fits the
     // majority exactly and every ψ-weighting of the rest would divide by zero. Report the limit
@@ -330,5 +396,5 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
       robustWeights,
     };
   }
-  return irls(problem, rho, { coefficients, scale, from, warm: from.startsWith('the warm start') }, options);
+  return irls(problem, rho, { coefficients, scale, from, warm: from.startsWith('the warm start') }, options, lent);
 }

@@ -101,22 +101,30 @@ export function whitenResiduals(problem: LinearProblem, residuals: Float64Array)
 
 /** Raw residuals y − Xβ. */
 export function residualsOf(problem: LinearProblem, beta: ArrayLike<number>, out = new Float64Array(problem.n)): Float64Array {
-  const { n, p, X, y } = problem;
+  return residualsRange(problem, beta, 0, problem.n, out);
+}
+
+/**
+ * rᵢ = yᵢ − xᵢᵀβ for the m rows from `start` into out[0..m): the chunked passes of IRLS keep
+ * their residuals in a cache-sized buffer instead of an n-sized one.
+ */
+export function residualsRange(problem: LinearProblem, beta: ArrayLike<number>, start: number, m: number, out: Float64Array): Float64Array {
+  const { p, X, y } = problem;
   // The degree models (p = 2, 3) unrolled: this pass runs several times per fit at n = 10⁶.
   if (p === 2) {
     const b0 = beta[0], b1 = beta[1];
-    for (let i = 0; i < n; i++) out[i] = y[i] - (X[2 * i] * b0 + X[2 * i + 1] * b1);
+    for (let i = 0, g = start; i < m; i++, g++) out[i] = y[g] - (X[2 * g] * b0 + X[2 * g + 1] * b1);
     return out;
   }
   if (p === 3) {
     const b0 = beta[0], b1 = beta[1], b2 = beta[2];
-    for (let i = 0; i < n; i++) out[i] = y[i] - (X[3 * i] * b0 + X[3 * i + 1] * b1 + X[3 * i + 2] * b2);
+    for (let i = 0, g = start; i < m; i++, g++) out[i] = y[g] - (X[3 * g] * b0 + X[3 * g + 1] * b1 + X[3 * g + 2] * b2);
     return out;
   }
-  for (let i = 0; i < n; i++) {
+  for (let i = 0, g = start; i < m; i++, g++) {
     let f = 0;
-    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
-    out[i] = y[i] - f;
+    for (let j = 0; j < p; j++) f += X[g * p + j] * beta[j];
+    out[i] = y[g] - f;
   }
   return out;
 }

@@ -73,49 +73,76 @@ export function createNormalWorkspace(problem: LinearProblem, intercept: number)
  */
 export function accumulateNormal(ws: NormalWorkspace, problem: LinearProblem, residuals: Float64Array, rowWeights: Float64Array | undefined,
   rhsWeights?: Float64Array): void {
+  resetNormal(ws);
+  addRows(ws, problem, 0, problem.n, residuals, rowWeights ?? problem.weights, rhsWeights);
+}
+
+/** Clears G and b before a sequence of addRows calls. */
+export function resetNormal(ws: NormalWorkspace): void {
+  ws.gram.fill(0);
+  ws.rhs.fill(0);
+}
+
+/** A second workspace with the same shift, scale and order (no pass over the data). */
+export function cloneNormalWorkspace(ws: NormalWorkspace): NormalWorkspace {
+  const { p } = ws;
+  return {
+    ...ws, shift: Float64Array.from(ws.shift), scale: Float64Array.from(ws.scale), order: Int32Array.from(ws.order),
+    gram: new Float64Array(p * p), rhs: new Float64Array(p), chol: new Float64Array(p * p), z: new Float64Array(p), theta: new Float64Array(p),
+  };
+}
+
+/**
+ * Adds rows start … start+m−1 to G and b, with residuals, row weights and right-hand-side weights
+ * indexed from 0 for that range (a chunk; the whole problem when start = 0, m = n). Row weights
+ * undefined: 1 for every row (pass problem.weights, or its chunk, for the prior weights).
+ * Chunks of a few thousand rows keep each chunk's sums exact to ~ε·√chunk, and their sum over
+ * chunks is a two-level (blocked) summation: no less accurate than one long sum.
+ */
+export function addRows(ws: NormalWorkspace, problem: LinearProblem, start: number, m: number, residuals: Float64Array,
+  rowWeights: Float64Array | undefined, rhsWeights?: Float64Array): void {
   const { p, shift, scale, gram, rhs, z } = ws;
-  const { n, X, weights } = problem;
-  gram.fill(0);
-  rhs.fill(0);
-  const v = rowWeights ?? weights;
+  const { X } = problem;
+  const v = rowWeights;
   const u = rhsWeights ?? v;
   if (p === 2) {
     // The degree model: unrolled, the bulk of every benchmark.
     const s0 = shift[0], s1 = shift[1], d0 = scale[0], d1 = scale[1];
     let g00 = 0, g01 = 0, g11 = 0, b0 = 0, b1 = 0;
-    for (let i = 0; i < n; i++) {
+    for (let i = 0, o = 2 * start; i < m; i++, o += 2) {
       const vi = v ? v[i] : 1;
-      const z0 = (X[2 * i] - s0) * d0;
-      const z1 = (X[2 * i + 1] - s1) * d1;
+      const z0 = (X[o] - s0) * d0;
+      const z1 = (X[o + 1] - s1) * d1;
       const vz0 = vi * z0, vz1 = vi * z1, ur = (u ? u[i] : 1) * residuals[i];
       g00 += vz0 * z0; g01 += vz0 * z1; g11 += vz1 * z1;
       b0 += z0 * ur; b1 += z1 * ur;
     }
-    gram[0] = g00; gram[1] = g01; gram[3] = g11; rhs[0] = b0; rhs[1] = b1;
+    gram[0] += g00; gram[1] += g01; gram[3] += g11; rhs[0] += b0; rhs[1] += b1;
     return;
   }
   if (p === 3) {
     // The degree model with the k·x² term, unrolled likewise.
     const s0 = shift[0], s1 = shift[1], s2 = shift[2], d0 = scale[0], d1 = scale[1], d2 = scale[2];
     let g00 = 0, g01 = 0, g02 = 0, g11 = 0, g12 = 0, g22 = 0, b0 = 0, b1 = 0, b2 = 0;
-    for (let i = 0; i < n; i++) {
+    for (let i = 0, o = 3 * start; i < m; i++, o += 3) {
       const vi = v ? v[i] : 1;
-      const z0 = (X[3 * i] - s0) * d0;
-      const z1 = (X[3 * i + 1] - s1) * d1;
-      const z2 = (X[3 * i + 2] - s2) * d2;
+      const z0 = (X[o] - s0) * d0;
+      const z1 = (X[o + 1] - s1) * d1;
+      const z2 = (X[o + 2] - s2) * d2;
       const vz0 = vi * z0, vz1 = vi * z1, vz2 = vi * z2, ur = (u ? u[i] : 1) * residuals[i];
       g00 += vz0 * z0; g01 += vz0 * z1; g02 += vz0 * z2; g11 += vz1 * z1; g12 += vz1 * z2; g22 += vz2 * z2;
       b0 += z0 * ur; b1 += z1 * ur; b2 += z2 * ur;
     }
-    gram[0] = g00; gram[1] = g01; gram[2] = g02; gram[4] = g11; gram[5] = g12; gram[8] = g22;
-    rhs[0] = b0; rhs[1] = b1; rhs[2] = b2;
+    gram[0] += g00; gram[1] += g01; gram[2] += g02; gram[4] += g11; gram[5] += g12; gram[8] += g22;
+    rhs[0] += b0; rhs[1] += b1; rhs[2] += b2;
     return;
   }
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < m; i++) {
     const vi = v ? v[i] : 1;
     const ur = (u ? u[i] : 1) * residuals[i];
     if (vi === 0 && ur === 0) continue;
-    for (let j = 0; j < p; j++) z[j] = (X[i * p + j] - shift[j]) * scale[j];
+    const o = (start + i) * p;
+    for (let j = 0; j < p; j++) z[j] = (X[o + j] - shift[j]) * scale[j];
     for (let j = 0; j < p; j++) {
       const vz = vi * z[j];
       rhs[j] += z[j] * ur;
