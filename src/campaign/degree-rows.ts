@@ -9,7 +9,8 @@
 // latitude sigmas through y = s/Δφ (Δφ and σ_φ in degrees):
 //     σ_y² = (σ_s/Δφ)² + (s/Δφ²)²·(σ_φ₁² + σ_φ₂²).
 // Arcs sharing a station are correlated through that station's latitude (covariance
-// −(s₁/Δφ₁²)(s₂/Δφ₂²)σ_φ² for consecutive arcs); the rows are treated as independent — see
+// −(s₁/Δφ₁²)(s₂/Δφ₂²)σ_φ² for consecutive arcs): these weights are the diagonal, and least
+// squares adds the covariance (degree-gls.ts); the robust estimators use the diagonal alone — see
 // DEVELOPERS.md "Conventions".
 // Weighting `equal`: every row weight 1, as the classic analyses did.
 import type { WeightingId } from './records.ts';
