@@ -1,4 +1,5 @@
-// Initial transfer of the field app (run: npx tsx bench/app-size.ts [--no-build] [--json]).
+// Initial transfer of the field app (run: npx tsx bench/app-size.ts [--no-build] [--dist DIR] [--json];
+// --dist measures another build folder as it is, without building).
 // "Initial" is what index.html makes the browser fetch before any route is shown: the entry
 // script, every chunk in its static import graph (index.html names them as modulepreload links)
 // and the stylesheets of those chunks. The graph is read from vite's dist/.vite/manifest.json
@@ -12,7 +13,7 @@
 // the service worker's precache list (the app would then break offline).
 import { spawnSync } from 'node:child_process';
 import { existsSync, readFileSync, readdirSync } from 'node:fs';
-import { dirname, join } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { gzipSync } from 'node:zlib';
 
@@ -131,8 +132,9 @@ function build(root: string): void {
 
 function main(argv: readonly string[]): number {
   const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-  const dist = join(root, 'dist');
-  if (!argv.includes('--no-build')) build(root);
+  const distArg = argv.indexOf('--dist');
+  const dist = distArg >= 0 ? resolve(argv[distArg + 1] ?? '') : join(root, 'dist');
+  if (distArg < 0 && !argv.includes('--no-build')) build(root);
   const manifestPath = join(dist, '.vite', 'manifest.json');
   if (!existsSync(manifestPath)) {
     console.error(`no ${join('dist', '.vite', 'manifest.json')}: build first (without --no-build), with build.manifest on`);

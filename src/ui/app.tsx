@@ -3,21 +3,30 @@
 import { IonApp, IonRouterOutlet, setupIonicReact } from '@ionic/react';
 import { IonReactRouter } from '@ionic/react-router';
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useEffect, useMemo } from 'react';
+import { Suspense, useEffect, useMemo, type ReactNode } from 'react';
 import { Navigate, Route } from 'react-router-dom';
-import { readSetting, writeSetting } from '../store/index.ts';
-import { UpdatePrompt } from './components/index.ts';
-import { ServicesContext, SettingsContext, type Services, type SettingsHandle } from './live/index.ts';
+// Modules by path rather than folder indexes, as in main.tsx (keeps the first chunk small).
+import { readSetting, writeSetting } from '../store/local-settings.ts';
+import { validateRecord } from '../store/validate-record.ts';
+import { UpdatePrompt } from './components/update-prompt.tsx';
+import { ServicesContext, SettingsContext, type Services, type SettingsHandle } from './live/services.tsx';
 import {
   ArcEntryPage, CampaignPage, CampaignsPage, FitPage, LatitudeEntryPage, ReadingsPage, SettingsPage, StationPage, SyncPage,
 } from './pages/index.ts';
 import { AppSettingsSchema, DEFAULT_APP_SETTINGS, readAppSettings, SETTING_APP, type AppSettings } from './settings/app-settings.ts';
 import { applyTheme } from './theme.ts';
-import { validateRecord } from '../store/index.ts';
 
 /** Page animations off when the person or the phone asks for reduced motion (field-traps ). */
 export function animationsWanted(reduceMotion: boolean): boolean {
   return !reduceMotion && !window.matchMedia('(prefers-reduced-motion: reduce)').matches;
+}
+
+/**
+ * A lazily loaded screen. The fallback is nothing: the router outlet keeps the current page shown
+ * until the new page's IonPage mounts, and then runs the transition.
+ */
+function Lazy({ children }: { children: ReactNode }) {
+  return <Suspense fallback={null}>{children}</Suspense>;
 }
 
 function Routes() {
@@ -25,14 +34,14 @@ function Routes() {
     <IonReactRouter>
       <IonRouterOutlet>
         <Route path="/campaigns" element={<CampaignsPage />} />
-        <Route path="/campaigns/:cid" element={<CampaignPage />} />
-        <Route path="/campaigns/:cid/stations/:sid" element={<StationPage />} />
-        <Route path="/campaigns/:cid/latitude/:rid" element={<LatitudeEntryPage />} />
-        <Route path="/campaigns/:cid/arcs/:rid" element={<ArcEntryPage />} />
-        <Route path="/campaigns/:cid/fit" element={<FitPage />} />
-        <Route path="/campaigns/:cid/readings" element={<ReadingsPage />} />
-        <Route path="/campaigns/:cid/sync" element={<SyncPage />} />
-        <Route path="/settings" element={<SettingsPage />} />
+        <Route path="/campaigns/:cid" element={<Lazy><CampaignPage /></Lazy>} />
+        <Route path="/campaigns/:cid/stations/:sid" element={<Lazy><StationPage /></Lazy>} />
+        <Route path="/campaigns/:cid/latitude/:rid" element={<Lazy><LatitudeEntryPage /></Lazy>} />
+        <Route path="/campaigns/:cid/arcs/:rid" element={<Lazy><ArcEntryPage /></Lazy>} />
+        <Route path="/campaigns/:cid/fit" element={<Lazy><FitPage /></Lazy>} />
+        <Route path="/campaigns/:cid/readings" element={<Lazy><ReadingsPage /></Lazy>} />
+        <Route path="/campaigns/:cid/sync" element={<Lazy><SyncPage /></Lazy>} />
+        <Route path="/settings" element={<Lazy><SettingsPage /></Lazy>} />
         <Route path="/" element={<Navigate to="/campaigns" replace />} />
         <Route path="*" element={<Navigate to="/campaigns" replace />} />
       </IonRouterOutlet>

@@ -12,11 +12,16 @@ import { Capacitor } from '@capacitor/core';
 import { Geolocation } from '@capacitor/geolocation';
 import { setupIonicReact } from '@ionic/react';
 import { createRoot } from 'react-dom/client';
-import { browserStorage, classifyStorageError, openFieldStore, readSetting } from '../store/index.ts';
-import { SolveClient } from '../worker/index.ts';
+// Modules by path, not through the folder indexes: an index re-exports modules whose top-level
+// code (zod schemas, sync wiring) the first screen does not need (bench/app-size.ts measures it).
+import { openFieldStore } from '../store/field-store.ts';
+import { readSetting } from '../store/local-settings.ts';
+import { classifyStorageError } from '../store/storage-error.ts';
+import { browserStorage } from '../store/storage-status.ts';
+import { SolveClient } from '../worker/solve-client.ts';
 import { animationsWanted, App } from './app.tsx';
-import { LiveFitHub } from './live/index.ts';
-import { AppUpdates } from './pwa/index.ts';
+import { LiveFitHub } from './live/live-fit-hub.ts';
+import { AppUpdates } from './pwa/register-app-worker.ts';
 import { readAppSettings, SETTING_APP } from './settings/app-settings.ts';
 
 declare const __ARCFIELD_BUILD_ID__: string;
