@@ -8,10 +8,12 @@ import {
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useRef, useState } from 'react';
 import { useNavigate } from 'react-router-dom';
-import { importCampaignFile, listCampaigns } from '../../store/index.ts';
-import { SaveStatus, useSaveState } from '../components/index.ts';
+import { listCampaigns } from '../../store/campaign-queries.ts';
+import { importCampaignFile } from '../../store/import-campaign.ts';
+import { SaveStatus, useSaveState } from '../components/save-status.tsx';
 import { formatAge } from '../format/index.ts';
-import { useDraft, useServices } from '../live/index.ts';
+import { useServices } from '../live/services.tsx';
+import { useDraft } from '../live/use-draft.ts';
 
 export function CampaignsPage() {
   const { store } = useServices();
