@@ -96,3 +96,41 @@ describe('solveCampaign with arcs that share a station', () => {
     expect(sd(ell.invF)).toBeLessThan(sd(old.invF));
   });
 });
+
+describe('which fits are whitened with the full arc covariance', () => {
+  const file = simulatedCampaign({ latitudesDeg: LATITUDES, sigmaArcsec: 0.3, sigmaM: 0.5, seed: 5150 });
+
+  it('least squares under propagated weights (every model) is the GLS and says so', () => {
+    for (const model of ['ellipsoid', 'degree', 'degree2'] as const) {
+      const r = solveCampaign(file, { model });
+      expect(r.reason).toMatch(/^generalised least squares with the full arc covariance/);
+      expect(r.statusMessage).not.toMatch(/independent/);
+      // Σ rᵢ = n − p: the trace of the GLS projection.
+      const p = model === 'degree2' ? 3 : 2;
+      const sum = r.readings.filter((x) => x.kind === 'arc').reduce((t, x) => t + (x.redundancy ?? NaN), 0);
+      within(sum, LATITUDES.length - 1 - p, 1e-9, '', `${model}: Σ redundancy`, { source: 'trace of Q_vv·P = n − p' });
+    }
+  });
+
+  it('equal weights stay plain least squares; robust estimators stay independent rows and say so', () => {
+    const equal = solveCampaign(file, { weighting: 'equal' });
+    expect(equal.reason).not.toMatch(/generalised/);
+    expect(equal.statusMessage).toBe('');
+    for (const estimator of ['least-absolute', 'minimax', 'huber', 'tukey'] as const) {
+      const r = solveCampaign(file, { estimator });
+      expect(r.reason).not.toMatch(/generalised/);
+      expect(r.statusMessage).toMatch(new RegExp(`the ${estimator} fit treats arcs that share a station as independent`));
+    }
+  });
+
+  it('a closed loop with near-exact distances (Σ not positive definite) falls back to independent rows and says so', () => {
+    // K01–K02, K02–K03 and K01–K03: the third arc is the sum of the first two in its latitude part,
+    // so with σ_s = 1e-7 m Σ is singular at double precision.
+    const loop = simulatedCampaign({ latitudesDeg: [10, 20, 30, 40], sigmaArcsec: 0.3, sigmaM: 1e-7 });
+    const extra = { ...loop.arcReadings[0], id: 'a-K01-K03', toStation: 'K03', distanceM: loop.arcReadings[0].distanceM + loop.arcReadings[1].distanceM };
+    const r = solveCampaign({ ...loop, arcReadings: [...loop.arcReadings, extra] });
+    expect(r.status).toBe('ok');
+    expect(r.statusMessage).toMatch(/not positive definite.*the arcs are treated as independent/);
+    expect(r.reason).not.toMatch(/generalised/);
+  });
+});

@@ -87,6 +87,29 @@ describe('rigorous ellipsoid fit', () => {
     for (const [da, df] of [[1, 0], [-1, 0], [0, 1], [0, -1], [1, 1], [-1, -1], [1, -1], [-1, 1]]) {
       expect(objective(a + 0.05 * sa * da, f + 0.05 * sf * df)).toBeGreaterThan(base);
     }
+    // The χ² statistic is that vᵀΣ⁻¹v (GeographicLib against our series: sub-millimetre, so 1e-4 relative).
+    within(r.quality.chiSquare?.statistic ?? NaN, base, 1e-4, '', 'χ² = vᵀΣ⁻¹v', { relative: true, source: GLIB });
+    // Standardized residuals are vᵢ/√(Q_vv)ᵢᵢ over one common robust scale, Q_vv = Σ − J Q Jᵀ with
+    // J = [s/a, ∂s/∂f] from GeographicLib (central difference over ±1e-7 in f) and Q = (JᵀΣ⁻¹J)⁻¹.
+    const h = 1e-7;
+    const J = arcs.map((arc) => {
+      const l1 = lat.get(arc.fromStation) ?? 0;
+      const l2 = lat.get(arc.toStation) ?? 0;
+      return [geographicLibArcM(a, f, l1, l2) / a, (geographicLibArcM(a, f + h, l1, l2) - geographicLibArcM(a, f - h, l1, l2)) / (2 * h)];
+    });
+    const N = [0, 1].map((p) => [0, 1].map((q) => J.reduce((t, ji, i) => t + ji[p] * J.reduce((u, jk, k) => u + W[i][k] * jk[q], 0), 0)));
+    const det = N[0][0] * N[1][1] - N[0][1] * N[1][0];
+    const Q = [[N[1][1] / det, -N[0][1] / det], [-N[1][0] / det, N[0][0] / det]];
+    const ratios = arcs.map((arc, i) => {
+      const qvv = S[i][i] - [0, 1].reduce((t, p) => t + [0, 1].reduce((u, q) => u + J[i][p] * Q[p][q] * J[i][q], 0), 0);
+      const v = arc.distanceM - geographicLibArcM(a, f, lat.get(arc.fromStation) ?? 0, lat.get(arc.toStation) ?? 0);
+      return (arcSigma.get(arc.id)?.standardizedResidual ?? NaN) * Math.sqrt(qvv) / v;
+    });
+    // 1/scale, the same for every arc, and the scale is at least 1 (floored at the a-priori sigmas).
+    for (const q of ratios) within(q, ratios[0], 1e-3, '', 'z·√Q_vv / v', { relative: true, source: 'Q_vv from its definition' });
+    expect(ratios[0]).toBeLessThanOrEqual(1 + 1e-9);
+    // Σ rᵢ = n − 2 (the redundancies of a projection).
+    within([...arcSigma.values()].reduce((t, x) => t + (x.redundancy ?? NaN), 0), n - 2, 1e-9, '', 'Σ redundancy', { source: 'trace of Q_vv·P = n − p' });
   });
 
   it('with seeded noise: within 4 standard errors of WGS 84, and the errors are plausible', () => {
