@@ -184,6 +184,23 @@ async function journey(page: Page, errors: string[]): Promise<void> {
     await excluded.locator('[data-testid="undo-exclusion"]').click();
     await suspects.filter({ hasText: 'K06–K07' }).first().waitFor();
 
+    // A small CSV through the campaign page's import panel (columns matched by name, ids made by
+    // the app): one more repeat at K01, stored in one go, and the readings count moves by one.
+    await page.goBack();
+    const allReadings = byTestId(page, 'open-readings');
+    await allReadings.getByText('All readings (146)').waitFor();
+    await byTestId(page, 'open-csv-import').click();
+    await byTestId(page, 'csv-file').setInputFiles({
+      name: 'k01-repeat.csv', mimeType: 'text/csv',
+      buffer: Buffer.from('station,kind,latitude_deg,sigma_arcsec,observed_at\r\nK01,astronomic,8.1200600,0.2,2026-06-03T19:30:00Z\r\n'),
+    });
+    await byTestId(page, 'csv-check').click();
+    await byTestId(page, 'csv-ready').getByText('1 rows ready').waitFor();
+    await byTestId(page, 'csv-import-go').click();
+    await top(page).locator('[data-testid="csv-import-status"][data-phase="saved"]').getByText('1 added, 0 changed, 0 removed').waitFor();
+    await allReadings.getByText('All readings (147)').waitFor();
+    await shot(page, 'csv-import-light');
+
     // 4. Reload with no network: both campaigns, their counts and readings are still there.
     await page.goto(`${server.url}/campaigns`);
     await page.reload();
