@@ -20,6 +20,11 @@
 //
 // Random numbers: mulberry32 through seededRandom (seeded-random.ts), used only to draw indices;
 // the same seed always gives the same replicates on every platform.
+//
+// `method: 'parametric'` instead simulates each replicate from the campaign's own solution, one
+// latitude error per station shared by its arcs and one distance error per arc at their a-priori
+// sigmas (parametric-bootstrap.ts): that reproduces the shared-station correlation, and measures
+// the spread the stated sigmas imply.
 import { InputError } from '../errors.ts';
 import { ellipsoidById } from '../geodesy/index.ts';
 import type { CampaignRecords, EstimatorId, LatitudeKind, ModelId, WeightingId } from './records.ts';
@@ -32,6 +37,8 @@ import { degreeFigure, ellipsoidFigure } from './figure-uncertainty.ts';
 import type { DegreeRow } from './degree-rows.ts';
 import { seededRandom } from './seeded-random.ts';
 import { solveCampaign } from './solve-campaign.ts';
+import { networkFromReductions } from './reliability-network.ts';
+import { parametricSampler } from './parametric-bootstrap.ts';
 
 export const DEFAULT_BOOTSTRAP_REPLICATES = 1000;
 export const DEFAULT_BOOTSTRAP_SEED = 20260606;
@@ -47,11 +54,15 @@ export interface BootstrapOptions {
   referenceEllipsoid?: string;
   replicates?: number;
   seed?: number;
+  /** `pairs` (default): resample the arcs; `parametric`: simulate from the solution and the a-priori sigmas. */
+  method?: BootstrapMethod;
   /** Called about every 1 % of the replicates and at the end (for the worker's progress bar). */
   onProgress?: (done: number, total: number) => void;
   /** Polled before each replicate; true stops early and returns what was done. */
   shouldStop?: () => boolean;
 }
+
+export type BootstrapMethod = 'pairs' | 'parametric';
 
 export interface BootstrapSummary {
   /** The campaign's own estimate (the full data). */
@@ -68,7 +79,7 @@ export interface BootstrapSummary {
 }
 
 export interface BootstrapResult {
-  method: 'pairs';
+  method: BootstrapMethod;
   model: ModelId;
   estimator: EstimatorId;
   seed: number;
@@ -115,6 +126,8 @@ export function bootstrapFigure(records: CampaignRecords, options: BootstrapOpti
   if (!Number.isInteger(requested) || requested < 2 || requested > MAX_BOOTSTRAP_REPLICATES) {
     throw new InputError('replicates', requested, `a whole number from 2 to ${MAX_BOOTSTRAP_REPLICATES}`);
   }
+  const method = options.method ?? 'pairs';
+  if (method !== 'pairs' && method !== 'parametric') throw new InputError('method', method, 'must be pairs or parametric');
   const seed = options.seed ?? DEFAULT_BOOTSTRAP_SEED;
   if (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff) throw new InputError('seed', seed, 'a whole number from 0 to 4294967295');
 
@@ -124,7 +137,7 @@ export function bootstrapFigure(records: CampaignRecords, options: BootstrapOpti
   const arcs = prepareArcs(records.arcReadings, records.stations, latitudes, kind, weighting, reference, excluded)
     .filter((a) => a.geometry !== null && !a.excluded);
   const empty = (note: string): BootstrapResult => ({
-    method: 'pairs', model, estimator, seed, requested, replicates: 0, redrawn: 0, notConverged: 0, stoppedEarly: false,
+    method, model, estimator, seed, requested, replicates: 0, redrawn: 0, notConverged: 0, stoppedEarly: false,
     arcsInFit: arcs.length, semiMajorAxisM: null, inverseFlattening: null, quadrantM: null, note,
   });
   const p = model === 'degree2' ? 3 : 2;
@@ -167,12 +180,21 @@ export function bootstrapFigure(records: CampaignRecords, options: BootstrapOpti
   let stoppedEarly = false;
   const every = Math.max(1, Math.floor(requested / 100));
   const distinct = new Set<number>();
+  const simulate = method === 'parametric'
+    ? parametricSampler(networkFromReductions(records, latitudes, arcs, kind, reference, excluded), base,
+      { model, estimator, weighting, latitudeKind: kind, referenceEllipsoid: reference.id }, rng)
+    : null;
   while (aValues.length < requested) {
     if (options.shouldStop?.()) { stoppedEarly = true; break; }
-    const idx = Array.from({ length: n }, () => Math.min(n - 1, Math.floor(rng.uniform() * n)));
-    distinct.clear();
-    for (const i of idx) distinct.add(rows[i].x);
-    const out = distinct.size >= p ? fitOnce(idx) : null;
+    let out: ReturnType<typeof fitOnce>;
+    if (simulate) {
+      out = simulate();
+    } else {
+      const idx = Array.from({ length: n }, () => Math.min(n - 1, Math.floor(rng.uniform() * n)));
+      distinct.clear();
+      for (const i of idx) distinct.add(rows[i].x);
+      out = distinct.size >= p ? fitOnce(idx) : null;
+    }
     if (!out) {
       redrawn++;
       if (redrawn > MAX_REDRAW_FACTOR * requested) break;
@@ -186,12 +208,16 @@ export function bootstrapFigure(records: CampaignRecords, options: BootstrapOpti
   }
   if (aValues.length < 2) return { ...empty(`too few usable resamples (${aValues.length}); ${redrawn} redrawn`), redrawn, stoppedEarly };
   const f = base.figure;
-  const notes = [`pairs bootstrap over ${n} arcs, seed ${seed}`];
-  if (n < 10) notes.push(`only ${n} arcs: the bootstrap error is itself uncertain and tends to be too large`);
-  notes.push('arcs are resampled as independent cases: the correlation through shared stations is not reproduced');
+  const notes = [`${method} bootstrap over ${n} arcs, seed ${seed}`];
+  if (method === 'pairs') {
+    if (n < 10) notes.push(`only ${n} arcs: the bootstrap error is itself uncertain and tends to be too large`);
+    notes.push('arcs are resampled as independent cases: the correlation through shared stations is not reproduced');
+  } else {
+    notes.push('replicates simulated from the fitted figure and station latitudes with one error per station (shared by its arcs) and per arc at their a-priori sigmas: the spread those sigmas imply, not extra scatter in the data');
+  }
   if (stoppedEarly) notes.push(`stopped after ${aValues.length} of ${requested} replicates`);
   return {
-    method: 'pairs', model, estimator, seed, requested, replicates: aValues.length, redrawn, notConverged, stoppedEarly, arcsInFit: n,
+    method, model, estimator, seed, requested, replicates: aValues.length, redrawn, notConverged, stoppedEarly, arcsInFit: n,
     semiMajorAxisM: summarise(aValues, f.semiMajorAxisM, f.semiMajorAxisStdM),
     inverseFlattening: summarise(invValues, f.inverseFlattening, f.inverseFlatteningStd),
     quadrantM: summarise(qValues, f.quadrantM, f.quadrantStdM),

@@ -23,5 +23,5 @@ export { fitCorrelatedArcs, designCovariance, arcDesign, type CorrelatedFit, typ
 export { campaignReliability, type CampaignReliability, type ReadingReliability, type ReliabilityOptions } from './reliability.ts';
 export { planCampaign, candidateLatitudes, type CampaignPlan, type PlanCandidate, type PlanOptions } from './plan-next-station.ts';
 export { stationSufficiency, DEFAULT_TARGET_SIGMA_ARCSEC, type StationSufficiency } from './sufficiency.ts';
-export { bootstrapFigure, DEFAULT_BOOTSTRAP_REPLICATES, DEFAULT_BOOTSTRAP_SEED, type BootstrapResult, type BootstrapSummary, type BootstrapOptions } from './bootstrap.ts';
+export { bootstrapFigure, DEFAULT_BOOTSTRAP_REPLICATES, DEFAULT_BOOTSTRAP_SEED, type BootstrapMethod, type BootstrapResult, type BootstrapSummary, type BootstrapOptions } from './bootstrap.ts';
 export { compareWithEllipsoids, COMPARISON_ALPHA, type EllipsoidComparison, type FigureWithUncertainty } from './compare-ellipsoids.ts';
