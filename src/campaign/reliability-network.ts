@@ -85,14 +85,21 @@ export function networkFromReductions(
 ): ArcNetwork {
   const stations: NetworkStation[] = [];
   const index = new Map<string, number>();
+  // The repeats in use per station, grouped once (campaigns carry thousands of readings).
+  const sigmasOf = new Map<string, number[]>();
+  for (const r of records.latitudeReadings) {
+    if (r.kind !== kind || excluded.has(r.id)) continue;
+    const list = sigmasOf.get(r.station);
+    if (list) list.push(r.sigmaArcsec);
+    else sigmasOf.set(r.station, [r.sigmaArcsec]);
+  }
   for (const s of latitudes) {
     const est = s.byKind[kind];
     if (!est || est.count === 0) continue;
-    const used = records.latitudeReadings.filter((r) => r.station === s.code && r.kind === kind && !excluded.has(r.id));
     index.set(s.code, stations.length);
     stations.push({
       code: s.code, latitudeDeg: est.latitudeDeg, sigmaArcsec: est.standardErrorArcsec, readingCount: est.count,
-      readingSigmaArcsec: median(used.map((r) => r.sigmaArcsec)), spreadArcsec: est.spreadArcsec,
+      readingSigmaArcsec: median(sigmasOf.get(s.code) ?? []), spreadArcsec: est.spreadArcsec,
     });
   }
   const byId = new Map(records.arcReadings.map((a) => [a.id, a]));
