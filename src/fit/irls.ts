@@ -14,6 +14,7 @@
 import { InputError } from '../errors.ts';
 import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
 import { madScale } from './robust-scale.ts';
+import { scratchFloat64 } from './scratch.ts';
 import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
 import { addRows, cloneNormalWorkspace, cofactorDiagonal, cofactorMatrix, createNormalWorkspace, factorNormal, resetNormal, solveCorrection, type NormalWorkspace } from './weighted-normal.ts';
 
@@ -129,15 +130,22 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const intercept = interceptColumn(problem);
   const ws = createNormalWorkspace(problem, intercept);
   const wsNewton = cloneNormalWorkspace(ws);
+  const wsPrior = cloneNormalWorkspace(ws);
   // floorⱼ = s/rmsⱼ: the change of βⱼ that moves the whitened fit by one scale unit on average;
   // relative change is measured against max(|βⱼ|, floorⱼ) so a coefficient near 0 can converge.
   const floor = new Float64Array(p);
   for (let j = 0; j < p; j++) floor[j] = s * Math.sqrt(n) * ws.scale[j];
   let yMax = 0;
-  for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(weights ? Math.sqrt(weights[i]) * y[i] : y[i]));
+  if (weights) for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(Math.sqrt(weights[i]) * y[i]));
+  else for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(y[i]));
   const rounding = IRLS_ROUNDING_FACTOR * Number.EPSILON * yMax;
+  const out: PassOutput = {
+    residuals: lent.residuals && lent.residuals.length === n ? lent.residuals : new Float64Array(n),
+    robustWeights: lent.robustWeights && lent.robustWeights.length === n ? lent.robustWeights : new Float64Array(n),
+    side: new Uint8Array(n),
+    objective: 0, changed: false, sumPsi2: 0, sumD: 0, sumD2: 0,
+  };
   const chunk = new Chunk(problem);
-  const side = new Uint8Array(n);
   const delta = new Float64Array(p);
   const qdiag = new Float64Array(p);
   const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
@@ -146,13 +154,19 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let lastChange = start.warm ? 0 : Infinity;
   let lastWasNewton = false;
   let objectiveBefore = Infinity;
+  // The outputs of the last pass are those of β (no step taken since): the final pass is saved.
+  let outputsCurrent = false;
+  let firstPass = true;
   while (stop.iterations < maxIterations) {
-    // One pass: Σρ and the side changes at β, with the IRLS normal equations and, when a Newton
-    // step is due, the Newton matrix beside them (so a failed Newton factor needs no second pass).
+    // One pass: Σρ and the side changes at β, the returned residuals and weights, the IRLS normal
+    // equations and, when a Newton step is due, the Newton matrix beside them (so a failed Newton
+    // factor needs no second pass); XᵀWX for the covariance on the first pass only.
     const planNewton = newtonAllowed && lastChange < NEWTON_SWITCH;
-    const pass = chunk.sweep(rho, beta, s, side, ws, planNewton ? wsNewton : null);
-    const objective = pass.objective;
-    if (lastWasNewton && rho.piecewiseQuadratic && !pass.changed) {
+    chunk.sweep(rho, beta, s, out, ws, planNewton ? wsNewton : null, firstPass ? wsPrior : null);
+    firstPass = false;
+    outputsCurrent = true;
+    const objective = out.objective;
+    if (lastWasNewton && rho.piecewiseQuadratic && !out.changed) {
       // Exact: the step solved the quadratic that holds on this partition, and it still holds.
       stop.converged = true;
       stop.exact = true;
@@ -162,6 +176,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       // The Newton step went uphill (the ψ′ partition changed under it): undo it and take IRLS
       // steps until they are small again; after MAX_NEWTON_REJECTIONS, IRLS only.
       beta.set(previous);
+      outputsCurrent = false;
       stop.rejected++;
       newtonAllowed = stop.rejected < MAX_NEWTON_REJECTIONS;
       lastChange = Infinity;
@@ -178,10 +193,10 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     if (!lastWasNewton) {
       const ratio = factorNormal(ws);
       if (!(ratio >= IRLS_MIN_PIVOT)) {
-        const out = noSolution(rho.estimator, problem, 'rank-deficient',
+        const failed = noSolution(rho.estimator, problem, 'rank-deficient',
           `after ${stop.iterations} steps the reweighted design is numerically rank deficient (pivot ratio ${ratio.toExponential(2)} < ${IRLS_MIN_PIVOT.toExponential(2)}): too few readings keep a weight`);
-        out.iterations = stop.iterations;
-        return out;
+        failed.iterations = stop.iterations;
+        return failed;
       }
     }
     solveCorrection(used, delta);
@@ -194,6 +209,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       noise = noise && Math.abs(delta[j]) <= rounding * Math.sqrt(qdiag[j]);
       beta[j] += delta[j];
     }
+    outputsCurrent = false;
     stop.iterations++;
     if (lastWasNewton) stop.newtonSteps++;
     stop.change = change;
@@ -204,47 +220,82 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       break;
     }
   }
-  return finish(problem, rho, start, beta, chunk, side, stop, ws, lent);
+  // The returned residuals, weights and Σρ belong to the returned β.
+  if (!outputsCurrent) chunk.sweep(rho, beta, s, out, null, null, null);
+  return finish(problem, rho, start, beta, out, stop, wsPrior);
 }
 
-/** Σρ at β and whether any reading changed side of the ψ′ partition. */
-interface PassResult { objective: number; changed: boolean }
+/** What a pass leaves: the n-sized outputs at its β and the sums over all rows. */
+interface PassOutput {
+  residuals: Float64Array;
+  /** ψ(u)/u per row. */
+  robustWeights: Float64Array;
+  /** [ψ′(uᵢ) > 0] per row (the ψ′ partition). */
+  side: Uint8Array;
+  objective: number;
+  /** Whether any row changed side since the previous pass. */
+  changed: boolean;
+  sumPsi2: number;
+  sumD: number;
+  sumD2: number;
+}
 
 /** Cache-sized buffers for the chunked passes, and the pass itself. */
 class Chunk {
-  readonly r = new Float64Array(IRLS_CHUNK_ROWS);
-  readonly v = new Float64Array(IRLS_CHUNK_ROWS);
-  readonly h = new Float64Array(IRLS_CHUNK_ROWS);
+  // Reused across fits (scratch.ts): a refit of 10⁴ readings is otherwise dominated by these.
+  readonly v = scratchFloat64('irls-v', IRLS_CHUNK_ROWS);
+  readonly h = scratchFloat64('irls-h', IRLS_CHUNK_ROWS);
   /** √wᵢ of the chunk (all 1 without prior weights: filled once). */
-  readonly sw = new Float64Array(IRLS_CHUNK_ROWS).fill(1);
+  readonly sw = scratchFloat64('irls-sw', IRLS_CHUNK_ROWS).fill(1);
   readonly state: SweepState = { changed: false };
   constructor(readonly problem: LinearProblem) {}
 
-  /** √w of rows start … start+m−1 into this.sw (nothing to do without prior weights). */
-  loadWeights(start: number, m: number): void {
-    const w = this.problem.weights;
-    if (w) for (let i = 0; i < m; i++) this.sw[i] = Math.sqrt(w[start + i]);
-  }
-
-  /** Residuals, ψ weights and Σρ at β chunk by chunk, accumulating IRLS (and Newton) normal equations. */
-  sweep(rho: RhoFunction, beta: Float64Array, s: number, side: Uint8Array, ws: NormalWorkspace, wsNewton: NormalWorkspace | null): PassResult {
-    const { problem, r, v, h, sw, state } = this;
-    const n = problem.n;
-    resetNormal(ws);
+  /**
+   * At β, chunk by chunk: residuals and robust weights into `out`, Σρ, side changes and the
+   * covariance sums; IRLS normal equations into ws, Newton's into wsNewton and XᵀWX (prior
+   * weights) into wsPrior when given.
+   */
+  sweep(rho: RhoFunction, beta: Float64Array, s: number, out: PassOutput, ws: NormalWorkspace | null, wsNewton: NormalWorkspace | null,
+    wsPrior: NormalWorkspace | null): void {
+    const { problem, v, h, sw, state } = this;
+    const { n, weights } = problem;
+    if (ws) resetNormal(ws);
     if (wsNewton) resetNormal(wsNewton);
+    if (wsPrior) resetNormal(wsPrior);
     let objective = 0;
     let changed = false;
+    let sumPsi2 = 0;
+    let sumD = 0;
+    let sumD2 = 0;
+    const { residuals, robustWeights, side } = out;
     for (let start = 0; start < n; start += IRLS_CHUNK_ROWS) {
       const m = Math.min(IRLS_CHUNK_ROWS, n - start);
-      this.loadWeights(start, m);
+      if (weights) for (let i = 0; i < m; i++) sw[i] = Math.sqrt(weights[start + i]);
+      const r = residuals.subarray(start, start + m);
       residualsRange(problem, beta, start, m, r);
-      objective += rho.sweep(m === IRLS_CHUNK_ROWS ? r : r.subarray(0, m), sw, s, v, h, side.subarray(start, start + m), state);
+      objective += rho.sweep(r, sw, s, v, h, side.subarray(start, start + m), state);
       changed = changed || state.changed;
-      addRows(ws, problem, start, m, r, v);
+      // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
+      for (let i = 0; i < m; i++) {
+        const w2 = sw[i] * sw[i];
+        const wt = v[i] / w2;
+        robustWeights[start + i] = wt;
+        const ps = ((sw[i] * r[i]) / s) * wt;
+        sumPsi2 += ps * ps;
+        const d = h[i] / w2;
+        sumD += d;
+        sumD2 += d * d;
+      }
+      if (ws) addRows(ws, problem, start, m, r, v);
       // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
       if (wsNewton) addRows(wsNewton, problem, start, m, r, h, v);
+      if (wsPrior) addRows(wsPrior, problem, start, m, ZERO_ROWS, weights ? weights.subarray(start, start + m) : undefined);
     }
-    return { objective, changed };
+    out.objective = objective;
+    out.changed = changed;
+    out.sumPsi2 = sumPsi2;
+    out.sumD = sumD;
+    out.sumD2 = sumD2;
   }
 }
 
@@ -260,40 +311,12 @@ interface Stop {
   tol: number;
 }
 
-function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, chunk: Chunk, side: Uint8Array,
-  stop: Stop, ws: NormalWorkspace, lent: IrlsBuffers): FitResult {
+function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, out: PassOutput, stop: Stop,
+  wsPrior: NormalWorkspace): FitResult {
   const { iterations, converged, atRounding, exact, change, tol, newtonSteps, rejected } = stop;
-  const { n, p, weights } = problem;
+  const { n, p } = problem;
   const s = start.scale;
-  const residuals = lent.residuals && lent.residuals.length === n ? lent.residuals : new Float64Array(n);
-  const robustWeights = lent.robustWeights && lent.robustWeights.length === n ? lent.robustWeights : new Float64Array(n);
-  const { v, h, sw, state } = chunk;
-  // One pass: the residuals and robust weights returned, Σρ, the sums of the covariance below,
-  // and XᵀWX (prior weights only) for it.
-  resetNormal(ws);
-  let objective = 0;
-  let sumPsi2 = 0;
-  let sumD = 0;
-  let sumD2 = 0;
-  for (let c = 0; c < n; c += IRLS_CHUNK_ROWS) {
-    const len = Math.min(IRLS_CHUNK_ROWS, n - c);
-    const r = residuals.subarray(c, c + len);
-    residualsRange(problem, beta, c, len, r);
-    chunk.loadWeights(c, len);
-    objective += rho.sweep(r, sw, s, v, h, side.subarray(c, c + len), state);
-    // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
-    for (let i = 0; i < len; i++) {
-      const w2 = sw[i] * sw[i];
-      const wt = v[i] / w2;
-      robustWeights[c + i] = wt;
-      const ps = ((sw[i] * r[i]) / s) * wt;
-      sumPsi2 += ps * ps;
-      const d = h[i] / w2;
-      sumD += d;
-      sumD2 += d * d;
-    }
-    addRows(ws, problem, c, len, ZERO_ROWS, weights ? weights.subarray(c, c + len) : undefined);
-  }
+  const { residuals, robustWeights, objective, sumPsi2, sumD, sumD2 } = out;
   const steps = newtonSteps > 0 ? ` (${newtonSteps} of them Newton steps${rejected ? `, ${rejected} rejected` : ''})` : '';
   const what = `${rho.estimator} (tuning ${rho.tuning}) by IRLS from ${start.from}, scale ${s.toPrecision(6)} held fixed`;
   const reason = !converged
@@ -324,7 +347,7 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
     const varD = Math.max(0, sumD2 / n - m * m);
     const K = 1 + ((p / n) * varD) / (m * m);
     const factor = ((K * K * (sumPsi2 / (n - p))) / (m * m)) * s * s;
-    if (factorNormal(ws) > 0) result.covariance = cofactorMatrix(ws).map((c) => c * factor);
+    if (factorNormal(wsPrior) > 0) result.covariance = cofactorMatrix(wsPrior).map((c) => c * factor);
   }
   return result;
 }

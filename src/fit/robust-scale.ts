@@ -25,6 +25,32 @@ export function quickselect(a: Float64Array, k: number, left = 0, right = a.leng
   return selectRange(a, k, left, right);
 }
 
+/** The k-th smallest (0-based) of a[0..count), rearranging a; unchecked (callers own the bounds). */
+export function selectKth(a: Float64Array, count: number, k: number): number {
+  return selectRange(a, k, 0, count - 1);
+}
+
+/**
+ * The exact MAD scale of values[0..n), rearranging and overwriting them (no copy). For even n the
+ * lower middle is the largest value left of the upper middle once that is selected: one
+ * selection per median instead of two.
+ */
+export function madScaleOverwrite(values: Float64Array, n: number): number {
+  const m = middleOf(values, n);
+  for (let i = 0; i < n; i++) values[i] = Math.abs(values[i] - m);
+  return MAD_CONSISTENCY * middleOf(values, n);
+}
+
+function middleOf(a: Float64Array, n: number): number {
+  const upper = n >> 1;
+  const hi = selectRange(a, upper, 0, n - 1);
+  if (n % 2 === 1) return hi;
+  let lo = a[0];
+  for (let i = 1; i < upper; i++) if (a[i] > lo) lo = a[i];
+  const mid = (lo + hi) / 2;
+  return Number.isFinite(mid) ? mid : lo / 2 + hi / 2;
+}
+
 // The sample bracket always contains k (its half-width exceeds the shift once n > 600), so the
 // recursion needs no checks.
 function selectRange(a: Float64Array, k: number, left: number, right: number): number {
@@ -71,8 +97,10 @@ function swap(a: Float64Array, i: number, j: number): void {
 
 function checkValues(values: ArrayLike<number>, field: string): void {
   if (values.length === 0) throw new InputError(field, values, 'needs at least one value');
+  // x − x is 0 exactly for finite x and NaN for ±∞ and NaN.
   for (let i = 0; i < values.length; i++) {
-    if (!Number.isFinite(values[i])) throw new InputError(`${field}[${i}]`, values[i], 'must be finite');
+    const x = values[i];
+    if (x - x !== 0) throw new InputError(`${field}[${i}]`, x, 'must be finite');
   }
 }
 
@@ -81,14 +109,8 @@ function checkValues(values: ArrayLike<number>, field: string): void {
  * middle values: after selecting the upper middle, the lower middle is the largest value left of it.
  */
 export function medianInPlace(scratch: Float64Array, length = scratch.length): number {
-  const n = length;
-  const upper = n >> 1;
-  const hi = quickselect(scratch, upper, 0, n - 1);
-  if (n % 2 === 1) return hi;
-  let lo = scratch[0];
-  for (let i = 1; i < upper; i++) if (scratch[i] > lo) lo = scratch[i];
-  const mid = (lo + hi) / 2;
-  return Number.isFinite(mid) ? mid : lo / 2 + hi / 2;
+  if (!Number.isInteger(length) || length < 1 || length > scratch.length) throw new InputError('length', length, `must be a whole number in [1, ${scratch.length}]`);
+  return middleOf(scratch, length);
 }
 
 /** Median of finite values (the input is not modified). */
@@ -105,8 +127,7 @@ export function madScale(values: ArrayLike<number>, scratch?: Float64Array): num
   checkValues(values, 'values');
   const n = values.length;
   const buf = scratch && scratch.length >= n ? scratch : new Float64Array(n);
-  for (let i = 0; i < n; i++) buf[i] = values[i];
-  const m = medianInPlace(buf, n);
-  for (let i = 0; i < n; i++) buf[i] = Math.abs(values[i] - m);
-  return MAD_CONSISTENCY * medianInPlace(buf, n);
+  if (values instanceof Float64Array) buf.set(values);
+  else for (let i = 0; i < n; i++) buf[i] = values[i];
+  return madScaleOverwrite(buf, n);
 }

@@ -34,6 +34,15 @@ export interface NormalWorkspace {
   readonly theta: Float64Array;
 }
 
+/**
+ * Rows the shift and scale are taken from when n is larger (a systematic sample). Any shift and
+ * any positive scale give an exact reparameterisation (the factor, the pivot ratio and the map
+ * back to β below hold for whatever values are chosen); they only have to be near the weighted
+ * mean and the column norm for the conditioning gain, which a sample of this size gives, and a
+ * whole pass over X is saved for every fit.
+ */
+export const WORKSPACE_SAMPLE_ROWS = 2048;
+
 /** Shift and scale from the prior weights; the buffers are reused by every accumulate/solve. */
 export function createNormalWorkspace(problem: LinearProblem, intercept: number): NormalWorkspace {
   const { n, p, X, weights } = problem;
@@ -42,7 +51,10 @@ export function createNormalWorkspace(problem: LinearProblem, intercept: number)
   const sums = new Float64Array(p);
   const sq = new Float64Array(p);
   let wsum = 0;
-  for (let i = 0; i < n; i++) {
+  const m = Math.min(n, WORKSPACE_SAMPLE_ROWS);
+  const stride = n / m;
+  for (let k = 0; k < m; k++) {
+    const i = m === n ? k : Math.floor(k * stride);
     const w = weights ? weights[i] : 1;
     wsum += w;
     for (let j = 0; j < p; j++) {
@@ -51,9 +63,10 @@ export function createNormalWorkspace(problem: LinearProblem, intercept: number)
       sq[j] += w * x * x;
     }
   }
+  // Norms of the whole columns, estimated from the sample (×n/m).
   for (let j = 0; j < p; j++) {
-    if (intercept >= 0 && j !== intercept) shift[j] = sums[j] / wsum;
-    scale[j] = sq[j] > 0 ? 1 / Math.sqrt(sq[j]) : 1;
+    if (intercept >= 0 && j !== intercept) shift[j] = wsum > 0 ? sums[j] / wsum : 0;
+    scale[j] = sq[j] > 0 ? 1 / Math.sqrt((sq[j] * n) / m) : 1;
   }
   const order = new Int32Array(p);
   let k = 0;
