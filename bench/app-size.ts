@@ -137,7 +137,7 @@ function main(argv: readonly string[]): number {
   if (distArg < 0 && !argv.includes('--no-build')) build(root);
   const manifestPath = join(dist, '.vite', 'manifest.json');
   if (!existsSync(manifestPath)) {
-    console.error(`no ${join('dist', '.vite', 'manifest.json')}: build first (without --no-build), with build.manifest on`);
+    console.error(`no ${manifestPath}: build first (without --no-build), with build.manifest on`);
     return 1;
   }
   const manifest = JSON.parse(readFileSync(manifestPath, 'utf8')) as ViteManifest;
