@@ -1,18 +1,19 @@
 /// <reference types="vitest/config" />
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { defineConfig, type Plugin } from 'vite';
+import { defineConfig, normalizePath, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
 import { VitePWA } from 'vite-plugin-pwa';
 import { appManifest, buildId, workboxOptions } from './src/ui/pwa/pwa-config.ts';
 
-const IONIC_REACT = createRequire(import.meta.url).resolve('@ionic/react');
+const IONIC_REACT = normalizePath(createRequire(import.meta.url).resolve('@ionic/react'));
 const PROXY_QUERY = '?arcfield-proxy=';
 
 /**
  * The generated React proxies of @ionic/react (`const IonX = createComponent({...})`), each as
  * a module of its own, keyed by export name. Only those whose element class and define function
- * come from an @ionic/core component module, and which @ionic/react does not use itself, are taken; anything else stays with @ionic/react.
+ * come from an @ionic/core component module, and which @ionic/react does not use itself, are
+ * taken; anything else stays with @ionic/react.
  */
 function ionicReactProxyModules(source: string): Map<string, string> {
   const importOf = new Map<string, string>();
