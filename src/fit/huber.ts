@@ -61,5 +61,5 @@ export function huberRho(k: number): RhoFunction {
  */
 export function fitHuber(problem: LinearProblem, options: FitOptions = {}): FitResult {
   validateProblem(problem);
-  return mEstimate(problem, huberRho(tuningOrDefault(options, HUBER_K)), options, (pr) => fitLeastAbsolute(pr));
+  return mEstimate(problem, huberRho(tuningOrDefault(options, HUBER_K)), options, (pr, o) => fitLeastAbsolute(pr, o));
 }

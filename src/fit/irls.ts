@@ -13,6 +13,7 @@
 // together); buffers are allocated once per fit and an iteration allocates nothing n-sized.
 import { InputError } from '../errors.ts';
 import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
+import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
 import { scratchFloat64 } from './scratch.ts';
 import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
@@ -115,6 +116,29 @@ const ZERO_ROWS = new Float64Array(IRLS_CHUNK_ROWS);
 export interface IrlsBuffers {
   residuals?: Float64Array;
   robustWeights?: Float64Array;
+}
+
+/**
+ * The vertex through the given rows (X_B β = y_B), or null when the rows are not p distinct rows
+ * of this problem or their system is singular: the L1 start's coefficients from its basis alone.
+ */
+function vertexThrough(problem: LinearProblem, basis: Int32Array): { coefficients: Float64Array; basis: Int32Array } | null {
+  const { n, p, X, y } = problem;
+  if (basis.length !== p) return null;
+  const seen = new Set<number>();
+  const A = new Float64Array(p * p);
+  const b = new Float64Array(p);
+  for (let k = 0; k < p; k++) {
+    const i = basis[k];
+    if (!Number.isInteger(i) || i < 0 || i >= n || seen.has(i)) return null;
+    seen.add(i);
+    for (let j = 0; j < p; j++) A[k * p + j] = X[i * p + j];
+    b[k] = y[i];
+  }
+  const lu = factorLu(A, p);
+  if (lu.singular) return null;
+  const coefficients = solveLu(lu, b);
+  return Array.from(coefficients).every(Number.isFinite) ? { coefficients, basis: Int32Array.from(basis) } : null;
 }
 
 /** Runs IRLS from `start` at the fixed scale `start.scale` (> 0, finite) on a validated problem with n ≥ p. */
@@ -352,13 +376,18 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
   return result;
 }
 
-/** The robust start when no warm start is given: the exact L1 fit (injected to keep this file free of it). */
-export type RobustStart = (problem: LinearProblem) => FitResult;
+/** The robust start: the exact L1 fit (injected to keep this file free of it), cold or warm. */
+export type RobustStart = (problem: LinearProblem, options?: FitOptions) => FitResult;
 
 /**
  * The shared M-estimator driver: checks, chooses the start and the fixed scale, runs IRLS.
- * Start: a usable warm start (right length, finite), else `robustStart` (the L1 fit). Scale:
- * options.scale, else the warm start's scale, else the MAD of the start's whitened residuals.
+ * Start: a usable warm start (right length, finite), else the L1 fit. Scale, in order:
+ * 1. options.scale;
+ * 2. no warm start, or a warm start carrying the L1 vertex (`basis`, as every Huber/Tukey result
+ *    does): the MAD of the whitened residuals of the exact L1 fit of THIS data — warm, the L1 is
+ *    refitted from that vertex (about two passes), so a warm refit returns the cold answer;
+ * 3. a warm start with a scale but no vertex: that scale (the M-estimate at the previous scale);
+ * 4. a warm start with coefficients only: the MAD of its own whitened residuals.
  */
 export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: FitOptions, robustStart: RobustStart): FitResult {
   const { n, p } = problem;
@@ -379,28 +408,33 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
       warmNote = ` (warm start ignored: ${c.length} coefficients for ${p} parameters or a non-finite value)`;
     }
   }
+  const vertex = coefficients && warm?.basis ? vertexThrough(problem, warm.basis) : null;
   let scale = options.scale;
   const lent: IrlsBuffers = {};
-  let l1Scale: number | undefined;
-  if (coefficients && scale === undefined && warm?.scale !== undefined && Number.isFinite(warm.scale) && warm.scale > 0) scale = warm.scale;
-  if (!coefficients) {
-    const l1 = robustStart(problem);
+  let l1: FitResult | null = null;
+  if (!coefficients || (scale === undefined && vertex)) {
+    // Cold, or warm with the L1 vertex: the exact L1 fit of this data, for the start and/or the scale.
+    const l1Options: FitOptions = vertex ? { warmStart: { coefficients: vertex.coefficients, basis: vertex.basis, ...(warm?.scale !== undefined ? { scale: warm.scale } : {}) } } : {};
+    l1 = robustStart(problem, l1Options);
     if (l1.status !== 'ok') {
       return noSolution(rho.estimator, problem, l1.status, `the robust start (least absolute deviations) failed: ${l1.reason}`);
     }
-    coefficients = Float64Array.from(l1.coefficients);
-    from = 'the least-absolute-deviations fit';
-    // The L1 fit's residual array is handed on: the MAD below reads it and the M-fit returns its
-    // own residuals in it, so the robust start costs no n-sized array of its own.
+    if (!coefficients) {
+      coefficients = Float64Array.from(l1.coefficients);
+      from = 'the least-absolute-deviations fit';
+    } else {
+      from += ', scale from the least-absolute-deviations refit';
+    }
+    // The L1 fit's residual array is handed on: the M-fit returns its own residuals in it, so
+    // the robust start costs no n-sized array of its own.
     lent.residuals = l1.residuals;
-    if (Number.isFinite(l1.scale) && l1.scale >= 0) l1Scale = l1.scale;
+    // The L1 fit reports exactly the scale wanted (the MAD of its whitened residuals, computed by
+    // simplex-residual-scale.ts without two full selections).
+    if (scale === undefined && Number.isFinite(l1.scale) && l1.scale >= 0) scale = l1.scale;
   }
+  if (scale === undefined && coefficients && !l1 && warm?.scale !== undefined && Number.isFinite(warm.scale) && warm.scale > 0) scale = warm.scale;
   from += warmNote;
-  if (scale === undefined) {
-    // The L1 fit reports exactly this scale (the MAD of its whitened residuals, computed by
-    // simplex-residual-scale.ts without two full selections): reuse it, else compute it.
-    scale = from === 'the least-absolute-deviations fit' && l1Scale !== undefined ? l1Scale : startScale(problem, coefficients);
-  }
+  if (scale === undefined) scale = startScale(problem, coefficients);
   if (scale === 0) {
     // More than half the whitened residuals of the start are exactly zero: the start fits the
     // majority exactly and every ψ-weighting of the rest would divide by zero. Report the limit
@@ -419,5 +453,7 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
       robustWeights,
     };
   }
-  return irls(problem, rho, { coefficients, scale, from, warm: from.startsWith('the warm start') }, options, lent);
+  const fit = irls(problem, rho, { coefficients, scale, from, warm: from.startsWith('the warm start') }, options, lent);
+  if (l1?.basis) fit.basis = l1.basis;
+  return fit;
 }

@@ -75,5 +75,5 @@ export function tukeyRho(c: number): RhoFunction {
  */
 export function fitTukey(problem: LinearProblem, options: FitOptions = {}): FitResult {
   validateProblem(problem);
-  return mEstimate(problem, tukeyRho(tuningOrDefault(options, TUKEY_C)), options, (pr) => fitLeastAbsolute(pr));
+  return mEstimate(problem, tukeyRho(tuningOrDefault(options, TUKEY_C)), options, (pr, o) => fitLeastAbsolute(pr, o));
 }

@@ -39,7 +39,11 @@ export interface FitResult {
   covariance?: Float64Array;
   /** IRLS weights of the last iteration (M-estimators), for diagnostics. */
   robustWeights?: Float64Array;
-  /** Indices of the rows defining the exact solution (L1: p interpolated rows; minimax: the p+1 reference). */
+  /**
+   * Indices of the rows defining the exact solution (L1: p interpolated rows; minimax: the p+1
+   * reference). Huber and Tukey: the vertex of the L1 start they ran on this data, so that a warm
+   * refit can re-derive the same start and scale cheaply (irls.ts).
+   */
   basis?: Int32Array;
 }
 
