@@ -3,7 +3,7 @@
 // weight is min(1, k/|u|). k = 1.345 gives 95 % efficiency at the normal (check-values.md).
 // Convex at a fixed scale, so the estimate does not depend on the start, only on the scale.
 import { fitLeastAbsolute } from './least-absolute.ts';
-import { mEstimate, tuningOrDefault, type RhoFunction, type SweepState } from './irls.ts';
+import { mEstimate, tuningOrDefault, type RhoFunction } from './irls.ts';
 import { validateProblem } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
@@ -26,30 +26,71 @@ export function huberRho(k: number): RhoFunction {
       const a = Math.abs(u);
       return a <= k ? 1 : k / a;
     },
-    sweep: (r: Float64Array, sw: Float64Array, s: number, v: Float64Array, h: Float64Array, side: Uint8Array, state: SweepState) => {
+    sweep: (r, sw, invScale, v, h, side, robustWeights, state) => {
+      // Two copies of the loop, with and without prior weights: the unweighted one (the usual
+      // large data set) skips √w and its products. ψ′ ∈ {0, 1}, so Σψ′² = Σψ′.
       let objective = 0;
       let changed = false;
+      let sumPsi2 = 0;
+      let inside = 0;
       const half = 0.5 * k * k;
-      for (let i = 0; i < r.length; i++) {
-        const w = sw[i];
-        const u = (w * r[i]) / s;
-        const a = Math.abs(u);
-        const w2 = w * w;
-        let sd = 0;
-        if (a <= k) {
-          objective += 0.5 * u * u;
-          v[i] = w2;
-          h[i] = w2;
-          sd = 1;
-        } else {
-          objective += k * a - half;
-          v[i] = (w2 * k) / a;
-          h[i] = 0;
+      const k2 = k * k;
+      const m = r.length;
+      if (sw === null) {
+        for (let i = 0; i < m; i++) {
+          const u = r[i] * invScale;
+          const a = Math.abs(u);
+          let sd = 0;
+          if (a <= k) {
+            objective += 0.5 * u * u;
+            v[i] = 1;
+            h[i] = 1;
+            robustWeights[i] = 1;
+            sumPsi2 += u * u;
+            sd = 1;
+          } else {
+            objective += k * a - half;
+            const wt = k / a;
+            v[i] = wt;
+            h[i] = 0;
+            robustWeights[i] = wt;
+            sumPsi2 += k2;
+          }
+          inside += sd;
+          if (side[i] !== sd) changed = true;
+          side[i] = sd;
         }
-        if (side[i] !== sd) changed = true;
-        side[i] = sd;
+      } else {
+        for (let i = 0; i < m; i++) {
+          const w = sw[i];
+          const u = w * r[i] * invScale;
+          const a = Math.abs(u);
+          const w2 = w * w;
+          let sd = 0;
+          if (a <= k) {
+            objective += 0.5 * u * u;
+            v[i] = w2;
+            h[i] = w2;
+            robustWeights[i] = 1;
+            sumPsi2 += u * u;
+            sd = 1;
+          } else {
+            objective += k * a - half;
+            const wt = k / a;
+            v[i] = w2 * wt;
+            h[i] = 0;
+            robustWeights[i] = wt;
+            sumPsi2 += k2;
+          }
+          inside += sd;
+          if (side[i] !== sd) changed = true;
+          side[i] = sd;
+        }
       }
       state.changed = changed;
+      state.sumPsi2 += sumPsi2;
+      state.sumD += inside;
+      state.sumD2 += inside;
       return objective;
     },
   };

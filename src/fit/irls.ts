@@ -33,13 +33,17 @@ export interface RhoFunction {
   psiDerivative(u: number): number;
   weight(u: number): number;
   /**
-   * One IRLS sweep in a single loop (no per-row calls): for uᵢ = swᵢrᵢ/s writes vᵢ = swᵢ²·ψ(uᵢ)/uᵢ,
-   * hᵢ = swᵢ²·ψ′(uᵢ) and sideᵢ = [ψ′(uᵢ) > 0]; returns Σρ(uᵢ), and in sweep.changed whether any side flipped.
+   * One IRLS sweep in a single loop (no per-row calls): for uᵢ = swᵢ·rᵢ·invScale writes vᵢ =
+   * swᵢ²·ψ(uᵢ)/uᵢ, hᵢ = swᵢ²·ψ′(uᵢ), sideᵢ = [ψ′(uᵢ) > 0] and the robust weight ψ(uᵢ)/uᵢ; returns
+   * Σρ(uᵢ) and adds Σψ(uᵢ)², Σψ′(uᵢ), Σψ′(uᵢ)² to state (for the covariance), with state.changed
+   * saying whether any side flipped. `sw` null: no prior weights (every swᵢ = 1).
    */
-  sweep(r: Float64Array, sw: Float64Array, s: number, v: Float64Array, h: Float64Array, side: Uint8Array, state: SweepState): number;
+  sweep(r: Float64Array, sw: Float64Array | null, invScale: number, v: Float64Array, h: Float64Array, side: Uint8Array,
+    robustWeights: Float64Array, state: SweepState): number;
 }
 
-export interface SweepState { changed: boolean }
+/** What a sweep reports beside Σρ (the sums are added to, changed is set). */
+export interface SweepState { changed: boolean; sumPsi2: number; sumD: number; sumD2: number }
 
 /** Default relative tolerance on the coefficients (types.ts: 1e-12 for IRLS). */
 export const IRLS_TOLERANCE = 1e-12;
@@ -173,9 +177,11 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const delta = new Float64Array(p);
   const qdiag = new Float64Array(p);
   const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
-  // Newton is tried once the iterate is close (a warm start is taken to be).
+  // Newton is tried once the iterate is close (a warm start is taken to be). Huber's ρ is convex
+  // and piecewise quadratic, and its L1 start has nearly the final partition: Newton from the first
+  // step (an uphill step is undone as below), which saves one pass on the benchmark data.
   let newtonAllowed = true;
-  let lastChange = start.warm ? 0 : Infinity;
+  let lastChange = start.warm || rho.piecewiseQuadratic ? 0 : Infinity;
   let lastWasNewton = false;
   let objectiveBefore = Infinity;
   // The outputs of the last pass are those of β (no step taken since): the final pass is saved.
@@ -269,9 +275,9 @@ class Chunk {
   // Reused across fits (scratch.ts): a refit of 10⁴ readings is otherwise dominated by these.
   readonly v = scratchFloat64('irls-v', IRLS_CHUNK_ROWS);
   readonly h = scratchFloat64('irls-h', IRLS_CHUNK_ROWS);
-  /** √wᵢ of the chunk (all 1 without prior weights: filled once). */
-  readonly sw = scratchFloat64('irls-sw', IRLS_CHUNK_ROWS).fill(1);
-  readonly state: SweepState = { changed: false };
+  /** √wᵢ of the chunk (prior weights only). */
+  readonly sw = scratchFloat64('irls-sw', IRLS_CHUNK_ROWS);
+  readonly state: SweepState = { changed: false, sumPsi2: 0, sumD: 0, sumD2: 0 };
   constructor(readonly problem: LinearProblem) {}
 
   /**
@@ -288,28 +294,18 @@ class Chunk {
     if (wsPrior) resetNormal(wsPrior);
     let objective = 0;
     let changed = false;
-    let sumPsi2 = 0;
-    let sumD = 0;
-    let sumD2 = 0;
+    state.sumPsi2 = 0;
+    state.sumD = 0;
+    state.sumD2 = 0;
+    const invScale = 1 / s;
     const { residuals, robustWeights, side } = out;
     for (let start = 0; start < n; start += IRLS_CHUNK_ROWS) {
       const m = Math.min(IRLS_CHUNK_ROWS, n - start);
       if (weights) for (let i = 0; i < m; i++) sw[i] = Math.sqrt(weights[start + i]);
       const r = residuals.subarray(start, start + m);
       residualsRange(problem, beta, start, m, r);
-      objective += rho.sweep(r, sw, s, v, h, side.subarray(start, start + m), state);
+      objective += rho.sweep(r, weights ? sw : null, invScale, v, h, side.subarray(start, start + m), robustWeights.subarray(start, start + m), state);
       changed = changed || state.changed;
-      // From the sweep: robust weight ψ(u)/u = vᵢ/wᵢ, ψ(u) = u·that, ψ′(u) = hᵢ/wᵢ.
-      for (let i = 0; i < m; i++) {
-        const w2 = sw[i] * sw[i];
-        const wt = v[i] / w2;
-        robustWeights[start + i] = wt;
-        const ps = ((sw[i] * r[i]) / s) * wt;
-        sumPsi2 += ps * ps;
-        const d = h[i] / w2;
-        sumD += d;
-        sumD2 += d * d;
-      }
       if (ws) addRows(ws, problem, start, m, r, v);
       // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
       if (wsNewton) addRows(wsNewton, problem, start, m, r, h, v);
@@ -317,9 +313,9 @@ class Chunk {
     }
     out.objective = objective;
     out.changed = changed;
-    out.sumPsi2 = sumPsi2;
-    out.sumD = sumD;
-    out.sumD2 = sumD2;
+    out.sumPsi2 = state.sumPsi2;
+    out.sumD = state.sumD;
+    out.sumD2 = state.sumD2;
   }
 }
 

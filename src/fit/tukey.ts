@@ -4,7 +4,7 @@
 // (check-values.md). ρ is not convex: the estimate is the stationary point reached from the
 // robust start, which is why the start is the exact L1 fit and not least squares.
 import { fitLeastAbsolute } from './least-absolute.ts';
-import { mEstimate, tuningOrDefault, type RhoFunction, type SweepState } from './irls.ts';
+import { mEstimate, tuningOrDefault, type RhoFunction } from './irls.ts';
 import { validateProblem } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
@@ -38,32 +38,47 @@ export function tukeyRho(c: number): RhoFunction {
       const t = 1 - (u * u) / c2;
       return t * t;
     },
-    sweep: (r: Float64Array, sw: Float64Array, s: number, v: Float64Array, h: Float64Array, side: Uint8Array, state: SweepState) => {
+    sweep: (r, sw, invScale, v, h, side, robustWeights, state) => {
       let objective = 0;
       let changed = false;
+      let sumPsi2 = 0;
+      let sumD = 0;
+      let sumD2 = 0;
       const cap = c2 / 6;
-      for (let i = 0; i < r.length; i++) {
-        const w = sw[i];
-        const u = (w * r[i]) / s;
+      const invC2 = 1 / c2;
+      const m = r.length;
+      for (let i = 0; i < m; i++) {
+        const w = sw === null ? 1 : sw[i];
+        const u = w * r[i] * invScale;
         const w2 = w * w;
         let sd = 0;
         if (Math.abs(u) <= c) {
-          const q = (u * u) / c2;
+          const q = u * u * invC2;
           const t = 1 - q;
           objective += cap * (1 - t * t * t);
-          v[i] = w2 * t * t;
+          const wt = t * t;
+          v[i] = w2 * wt;
+          robustWeights[i] = wt;
+          const ps = u * wt;
+          sumPsi2 += ps * ps;
           const d = t * (1 - 5 * q);
           h[i] = w2 * d;
+          sumD += d;
+          sumD2 += d * d;
           sd = d > 0 ? 1 : 0;
         } else {
           objective += cap;
           v[i] = 0;
           h[i] = 0;
+          robustWeights[i] = 0;
         }
         if (side[i] !== sd) changed = true;
         side[i] = sd;
       }
       state.changed = changed;
+      state.sumPsi2 += sumPsi2;
+      state.sumD += sumD;
+      state.sumD2 += sumD2;
       return objective;
     },
   };
