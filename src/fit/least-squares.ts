@@ -1,13 +1,14 @@
 // Weighted least squares: minimise Σ wᵢ(yᵢ − xᵢᵀβ)² with wᵢ = 1/σᵢ².
 //
-// Route 1 (default up to STREAMING_MIN_ROWS rows): Householder QR (ml-matrix QrDecomposition) of
-// the whitened design [√W X D | √W y], D scaling every column to unit norm. Householder QR is
+// Route 1 (below STREAMING_MIN_ROWS rows, and whenever route 2's guard fails): Householder QR
+// (ml-matrix QrDecomposition) of the whitened design [√W X D | √W y], D scaling every column to
+// unit norm. Householder QR is
 // backward stable (Golub & Van Loan, "Matrix Computations" 4th ed., §5.3), so the coefficients
 // carry an error of order cond(X)·ε whatever the conditioning; the scaling makes the rank test
 // independent of units. Beyond QR_BLOCK_ROWS the QR is taken block by block (TSQR: the R of each
 // block is stacked on the next), which is the same factorisation up to row signs.
-// Route 2 (large n): streaming normal equations on centred, scaled columns with refinement in
-// correction form (weighted-normal.ts). Exact to ~1e-14 relative when the pivot guard passes;
+// Route 2 (from STREAMING_MIN_ROWS rows): streaming normal equations on centred, scaled columns
+// with refinement in correction form (weighted-normal.ts). Exact to ~1e-14 relative when the pivot guard passes;
 // otherwise the problem goes to route 1 instead.
 // Covariance σ₀²(XᵀWX)⁻¹ with σ₀² = Σwr²/(n − p); the expected σ₀² is 1 when wᵢ = 1/σᵢ².
 import { Matrix, QrDecomposition } from 'ml-matrix';
@@ -22,8 +23,12 @@ export interface LeastSquaresOptions extends FitOptions {
   method?: LeastSquaresMethod;
 }
 
-/** From this many rows on, 'auto' streams the normal equations (QR there is ~30× slower). */
-export const STREAMING_MIN_ROWS = 20_000;
+/**
+ * From this many rows on, 'auto' streams the normal equations (guarded; QR decides when the guard
+ * fails). Measured with bench/: ml-matrix's QR costs ~6 ms at 10⁴ rows (its rows are JavaScript
+ * arrays), the normal route ~0.1 ms; below a few hundred rows both are negligible and QR is kept.
+ */
+export const STREAMING_MIN_ROWS = 256;
 /** Rows per QR block: bounds ml-matrix's per-row objects to a few hundred kB at any n. */
 export const QR_BLOCK_ROWS = 4096;
 /**
