@@ -43,13 +43,88 @@ export function madScaleOverwrite(values: Float64Array, n: number): number {
 
 function middleOf(a: Float64Array, n: number): number {
   const upper = n >> 1;
-  const hi = selectRange(a, upper, 0, n - 1);
+  let lo: number;
+  let hi: number;
+  if (n >= HISTOGRAM_MIN_COUNT) {
+    const pair = middlePairByHistogram(a, n);
+    if (pair) {
+      if (n % 2 === 1) return pair[1];
+      [lo, hi] = pair;
+      const m = (lo + hi) / 2;
+      return Number.isFinite(m) ? m : lo / 2 + hi / 2;
+    }
+  }
+  hi = selectRange(a, upper, 0, n - 1);
   if (n % 2 === 1) return hi;
-  let lo = a[0];
+  lo = a[0];
   for (let i = 1; i < upper; i++) if (a[i] > lo) lo = a[i];
   const mid = (lo + hi) / 2;
   return Number.isFinite(mid) ? mid : lo / 2 + hi / 2;
 }
+
+/** From this many values the middle order statistics are found by a value histogram first. */
+export const HISTOGRAM_MIN_COUNT = 2048;
+/** Bins of that histogram: the bins holding the middle ranks keep ~n/BINS values for a spread sample. */
+const HISTOGRAM_BINS = 1024;
+const binCounts = new Int32Array(HISTOGRAM_BINS);
+let binValues = new Float64Array(0);
+
+/**
+ * The order statistics of ranks ⌊(n−1)/2⌋ and ⌊n/2⌋ of a[0..n) without rearranging it: one pass
+ * for the range, one counting the values per equal-width bin, one collecting the values of the
+ * bins that hold those ranks, then selection among them — about three reads of the data instead
+ * of a partitioning selection's several (exact: values are only compared and copied). Null when
+ * the bins would not help (a non-finite range, or the middle bins holding over a quarter of the
+ * values, e.g. heavy ties); the caller then selects directly.
+ */
+function middlePairByHistogram(a: Float64Array, n: number): [number, number] | null {
+  let min = a[0];
+  let max = a[0];
+  for (let i = 1; i < n; i++) {
+    const x = a[i];
+    if (x < min) min = x;
+    else if (x > max) max = x;
+  }
+  if (min === max) return [min, min];
+  const width = max - min;
+  if (!Number.isFinite(width)) return null;
+  const B = HISTOGRAM_BINS;
+  const perUnit = B / width;
+  const counts = binCounts;
+  counts.fill(0);
+  // Same expression in both passes, so a value always lands in the same bin.
+  for (let i = 0; i < n; i++) {
+    const b = ((a[i] - min) * perUnit) | 0;
+    counts[b < B ? b : B - 1]++;
+  }
+  const k1 = (n - 1) >> 1;
+  const k2 = n >> 1;
+  let below = 0;
+  let b1 = 0;
+  while (below + counts[b1] <= k1) below += counts[b1++];
+  let b2 = b1;
+  let through = below + counts[b1];
+  while (through <= k2) through += counts[++b2];
+  const kept = through - below;
+  if (kept > n >> 2) return null;
+  if (binValues.length < kept) binValues = new Float64Array(Math.max(kept, 2 * binValues.length));
+  const buf = binValues;
+  let c = 0;
+  for (let i = 0; i < n; i++) {
+    const x = a[i];
+    let b = ((x - min) * perUnit) | 0;
+    if (b >= B) b = B - 1;
+    if (b >= b1 && b <= b2) buf[c++] = x;
+  }
+  const v2 = selectRange(buf, k2 - below, 0, kept - 1);
+  if (k1 === k2) return [v2, v2];
+  // The lower middle is the largest value left of the upper one after its selection.
+  // (k1 ≥ below, so that value is among the collected ones.)
+  let v1 = -Infinity;
+  for (let i = 0; i < k2 - below; i++) if (buf[i] > v1) v1 = buf[i];
+  return [v1, v2];
+}
+
 
 // The sample bracket always contains k (its half-width exceeds the shift once n > 600), so the
 // recursion needs no checks.

@@ -73,3 +73,27 @@ describe('quickselect and median against a full sort (seeded)', () => {
     expect(quickselect(Float64Array.from(down), 17)).toBe(8.5);
   });
 });
+
+describe('median and madScale on large arrays (the histogram path, n ≥ HISTOGRAM_MIN_COUNT)', () => {
+  it('equal the full sort on heavy-tailed, tied, clustered and two-point data', () => {
+    // Invented data; brute force = a full sort. Seeded LCG so a failure replays.
+    let state = 20261202;
+    const rand = (): number => { state = (state * 48271) % 2147483647; return state / 2147483647; };
+    const shapes: Array<(i: number) => number> = [
+      () => (rand() - 0.5) * 10 + (rand() < 0.05 ? 300 * (rand() - 0.5) : 0), // noise with gross outliers
+      () => Math.round(rand() * 5), // six tied values
+      () => (rand() < 0.5 ? 0 : 1e-300) + rand() * 1e-310, // subnormal spread
+      (i) => (i % 2 ? -1 : 1) * 1e300, // two points far apart
+      () => (rand() < 0.999 ? rand() : 1e12), // one far cluster: middle bins hold most values
+    ];
+    for (const [s, shape] of shapes.entries()) {
+      for (const n of [2048, 2049, 5000, 20001]) {
+        const v = Float64Array.from({ length: n }, (_, i) => shape(i));
+        const m = bruteMedian(v);
+        expect(median(v), `shape ${s}, n ${n}: median`).toBe(m);
+        const dev = Float64Array.from(v, (x) => Math.abs(x - m));
+        expect(madScale(v), `shape ${s}, n ${n}: MAD`).toBe(MAD_CONSISTENCY * bruteMedian(dev));
+      }
+    }
+  });
+});
