@@ -188,11 +188,11 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let outputsCurrent = false;
   let firstPass = true;
   while (stop.iterations < maxIterations) {
-    // One pass: Σρ and the side changes at β, the returned residuals and weights, the IRLS normal
-    // equations and, when a Newton step is due, the Newton matrix beside them (so a failed Newton
-    // factor needs no second pass); XᵀWX for the covariance on the first pass only.
+    // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
+    // equations of the step to take (IRLS, or Newton when one is due); XᵀWX for the covariance on
+    // the first pass only.
     const planNewton = newtonAllowed && lastChange < NEWTON_SWITCH;
-    chunk.sweep(rho, beta, s, out, ws, planNewton ? wsNewton : null, firstPass ? wsPrior : null);
+    chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, firstPass ? wsPrior : null);
     firstPass = false;
     outputsCurrent = true;
     const objective = out.objective;
@@ -216,7 +216,14 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     objectiveBefore = objective;
     let used = ws;
     lastWasNewton = false;
-    if (planNewton && factorNormal(wsNewton) >= IRLS_MIN_PIVOT) {
+    if (planNewton) {
+      if (!(factorNormal(wsNewton) >= IRLS_MIN_PIVOT)) {
+        // ψ′ leaves too few informative rows for a Newton matrix: IRLS from here on (its normal
+        // equations were not accumulated in this pass, so the pass is repeated at the same β).
+        newtonAllowed = false;
+        objectiveBefore = Infinity;
+        continue;
+      }
       used = wsNewton;
       lastWasNewton = true;
     }
