@@ -6,7 +6,10 @@
 import { liveQuery, type Subscription } from 'dexie';
 import type { CampaignRecords } from '../../campaign/records.ts';
 import type { CampaignResult } from '../../campaign/result.ts';
-import { CampaignMirror, lastChangeSeq, type ArcfieldDb } from '../../store/index.ts';
+// Store modules by path: the store's index also re-exports the sync store and the imports, which
+// the first screen does not need (bench/app-size.ts).
+import type { ArcfieldDb } from '../../store/arcfield-db.ts';
+import { CampaignMirror, lastChangeSeq } from '../../store/campaign-mirror.ts';
 import type { FitChartData, SolveClient } from '../../worker/index.ts';
 import { solveOptionsFor, type AppSettings } from '../settings/app-settings.ts';
 

@@ -1,7 +1,7 @@
 // Form state that survives the app being killed: written to the store's local settings on every
 // change (field-traps ), restored when the form opens, cleared only after a save read back.
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { clearDraft, loadDraft, saveDraft } from '../../store/index.ts';
+import { clearDraft, loadDraft, saveDraft } from '../../store/local-settings.ts'; // by path, as in live-fit-hub.ts
 import { useServices } from './services.tsx';
 
 export interface Draft<T> {
