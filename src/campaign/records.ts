@@ -3,16 +3,13 @@
 // Units live in field names: Deg = decimal degrees, M = metres, Arcsec = arcseconds.
 // Latitude is north-positive, in [-90, 90]; longitude east-positive, in [-180, 180].
 import { z } from 'zod';
+// The value lists live in record-enums.ts (no zod), so screens can offer them without loading the schemas.
+import { ESTIMATOR_IDS, LATITUDE_KINDS, LENGTH_UNIT_IDS, MODEL_IDS, WEIGHTING_IDS } from './record-enums.ts';
 
-export const LENGTH_UNIT_IDS = ['m', 'km', 'ft', 'us-ft', 'toise'] as const;
-export type LengthUnitId = (typeof LENGTH_UNIT_IDS)[number];
-
-export const LATITUDE_KINDS = ['astronomic', 'geodetic'] as const;
-export type LatitudeKind = (typeof LATITUDE_KINDS)[number];
-
-/** Record kinds as they appear in the store, the change log and the wire protocol. */
-export const RECORD_KINDS = ['campaign', 'station', 'latitudeReading', 'arcReading', 'exclusion'] as const;
-export type RecordKind = (typeof RECORD_KINDS)[number];
+export {
+  ESTIMATOR_IDS, LATITUDE_KINDS, LENGTH_UNIT_IDS, MODEL_IDS, RECORD_KINDS, WEIGHTING_IDS,
+  type EstimatorId, type LatitudeKind, type LengthUnitId, type ModelId, type RecordKind, type WeightingId,
+} from './record-enums.ts';
 
 const id = z.string().min(1, 'must not be empty').max(128, 'at most 128 characters')
   .regex(/^[A-Za-z0-9._:-]+$/, 'letters, digits and . _ : - only');
@@ -81,13 +78,6 @@ export const ExclusionSchema = z.strictObject({
   at: isoInstant,
 });
 export type Exclusion = z.infer<typeof ExclusionSchema>;
-
-export const ESTIMATOR_IDS = ['least-squares', 'least-absolute', 'minimax', 'huber', 'tukey'] as const;
-export type EstimatorId = (typeof ESTIMATOR_IDS)[number];
-export const MODEL_IDS = ['degree', 'degree2', 'ellipsoid'] as const;
-export type ModelId = (typeof MODEL_IDS)[number];
-export const WEIGHTING_IDS = ['propagated', 'equal'] as const;
-export type WeightingId = (typeof WEIGHTING_IDS)[number];
 
 export const CampaignSettingsSchema = z.strictObject({
   estimator: z.enum(ESTIMATOR_IDS).optional(),

@@ -1,18 +1,19 @@
 // The repository the screens use: every save validates its record with the campaign schema,
 // commits it with its change-log row in one transaction (commit-record.ts) and returns the row
 // as read back. Deletes and undos are tombstones. Reads live in campaign-queries.ts.
+// The schemas load with the first write (load-record-checks.ts), before any transaction opens:
+// a Dexie transaction must not await anything but Dexie, and the app's first screen needs no zod.
 import type { ArcReading, Exclusion, LatitudeReading, Station } from '../campaign/records.ts';
-import { ArcReadingSchema, ExclusionSchema, LatitudeReadingSchema, StationSchema } from '../campaign/records.ts';
 import { InputError } from '../errors.ts';
 import { ArcfieldDb, type IndexedDbDeps } from './arcfield-db.ts';
-import { CampaignRecordSchema, type CampaignRecord } from './campaign-record.ts';
+import type { CampaignRecord } from './campaign-record.ts';
 import { commitRecord, tableOf } from './commit-record.ts';
 import { loadDeviceContext, type DeviceContext, type DeviceContextOptions } from './device-context.ts';
 import type {
   ArcReadingRow, CampaignRow, ExclusionRow, GnssFixRow, LatitudeReadingRow, RecordRowByKind, StationRow,
 } from './rows.ts';
+import { loadRecordChecks } from './load-record-checks.ts';
 import { observedMsOf } from './schema-v2.ts';
-import { validateRecord } from './validate-record.ts';
 
 export interface FieldStoreOptions extends IndexedDbDeps, DeviceContextOptions {
   name?: string;
@@ -34,6 +35,7 @@ export class FieldStore {
 
   async createCampaign(input: NewCampaign): Promise<CampaignRow> {
     const id = this.ctx.newId();
+    const { validateRecord, CampaignRecordSchema } = await loadRecordChecks('campaign', id);
     const record = validateRecord(CampaignRecordSchema, { ...input, id, createdAt: new Date(this.ctx.now()).toISOString() }, 'campaign');
     return commitRecord(this.db, this.ctx, {
       kind: 'campaign', campaignId: id, recordId: id, op: 'put',
@@ -42,6 +44,7 @@ export class FieldStore {
   }
 
   async updateCampaign(id: string, patch: Partial<NewCampaign>): Promise<CampaignRow> {
+    const { validateRecord, CampaignRecordSchema } = await loadRecordChecks('campaign', id);
     return commitRecord(this.db, this.ctx, {
       kind: 'campaign', campaignId: id, recordId: id, op: 'put',
       build: (cur, meta) => {
@@ -54,6 +57,7 @@ export class FieldStore {
 
   async saveStation(campaignId: string, input: StationInput): Promise<StationRow> {
     const id = input.id ?? this.ctx.newId();
+    const { validateRecord, StationSchema } = await loadRecordChecks('station', id);
     const record = validateRecord(StationSchema, { ...input, id }, 'station') as Station & { id: string };
     return commitRecord(this.db, this.ctx, {
       kind: 'station', campaignId, recordId: id, op: 'put', alsoTables: [this.db.campaigns],
@@ -73,6 +77,7 @@ export class FieldStore {
    */
   async saveLatitudeReading(campaignId: string, input: LatitudeReadingInput, rawFixIds: readonly string[] = []): Promise<LatitudeReadingRow> {
     const id = input.id ?? this.ctx.newId();
+    const { validateRecord, LatitudeReadingSchema } = await loadRecordChecks('latitudeReading', id);
     const record = validateRecord(LatitudeReadingSchema, { ...input, id }, 'latitude reading');
     return commitRecord(this.db, this.ctx, {
       kind: 'latitudeReading', campaignId, recordId: id, op: 'put', alsoTables: [this.db.stations, this.db.gnssFixes],
@@ -87,6 +92,7 @@ export class FieldStore {
 
   async saveArcReading(campaignId: string, input: ArcReadingInput): Promise<ArcReadingRow> {
     const id = input.id ?? this.ctx.newId();
+    const { validateRecord, ArcReadingSchema } = await loadRecordChecks('arcReading', id);
     const record = validateRecord(ArcReadingSchema, { ...input, id }, 'arc reading');
     return commitRecord(this.db, this.ctx, {
       kind: 'arcReading', campaignId, recordId: id, op: 'put', alsoTables: [this.db.stations],
@@ -102,6 +108,7 @@ export class FieldStore {
   /** A person leaves one reading out of the fit, with a reason (an exclusion record, synced). */
   async excludeReading(campaignId: string, readingId: string, reason: string, excludedBy: string): Promise<ExclusionRow> {
     const id = this.ctx.newId();
+    const { validateRecord, ExclusionSchema } = await loadRecordChecks('exclusion', id);
     const record: Exclusion = validateRecord(ExclusionSchema, {
       id, readingId, reason: reason.trim(), excludedBy: excludedBy.trim(), at: new Date(this.ctx.now()).toISOString(),
     }, 'exclusion');

@@ -2,8 +2,9 @@
 // whole file passes CampaignFileSchema first (every bad row listed, nothing stored from a rejected
 // file — style.md §12), then every record and its change-log row go in ONE transaction.
 // Record ids get fresh device-made UUIDv7s (a file imported twice must not collide on primary
-// keys); exclusions are re-pointed at the new reading ids.
-import { CampaignFileSchema, type CampaignFile } from '../campaign/records.ts';
+// keys); exclusions are re-pointed at the new reading ids. The schema loads with the first import
+// (load-record-checks.ts), not with the start screen that offers it.
+import type { CampaignFile } from '../campaign/records.ts';
 import { PROTOCOL_VERSION } from '../sync/protocol.ts';
 import type { RecordKind } from '../campaign/records.ts';
 import { SETTING_HLC } from './device-context.ts';
@@ -11,8 +12,8 @@ import type { FieldStore } from './field-store.ts';
 import type { CampaignRecord } from './campaign-record.ts';
 import type { ArcReadingRow, ChangeRow, ExclusionRow, LatitudeReadingRow, RowMeta, StationRow } from './rows.ts';
 import { observedMsOf } from './schema-v2.ts';
+import { loadRecordChecks } from './load-record-checks.ts';
 import { classifyStorageError } from './storage-error.ts';
-import { validateRecord } from './validate-record.ts';
 import { ValidationError, type Problem } from '../errors.ts';
 
 /** Station codes unique; every reading names a station of the file. */
@@ -43,6 +44,7 @@ export interface ImportSummary {
 }
 
 export async function importCampaignFile(store: FieldStore, input: unknown, source = 'campaign file'): Promise<ImportSummary> {
+  const { validateRecord, CampaignFileSchema } = await loadRecordChecks('campaign file', source);
   const file: CampaignFile = validateRecord(CampaignFileSchema, input, source);
   checkReferences(file, source);
   const { db, ctx } = store;

@@ -7,13 +7,13 @@ import { Suspense, useEffect, useMemo, type ReactNode } from 'react';
 import { Navigate, Route } from 'react-router-dom';
 // Modules by path rather than folder indexes, as in main.tsx (keeps the first chunk small).
 import { readSetting, writeSetting } from '../store/local-settings.ts';
-import { validateRecord } from '../store/validate-record.ts';
 import { UpdatePrompt } from './components/update-prompt.tsx';
 import { ServicesContext, SettingsContext, type Services, type SettingsHandle } from './live/services.tsx';
 import {
   ArcEntryPage, CampaignPage, CampaignsPage, FitPage, LatitudeEntryPage, ReadingsPage, SettingsPage, StationPage, SyncPage,
 } from './pages/index.ts';
-import { AppSettingsSchema, DEFAULT_APP_SETTINGS, readAppSettings, SETTING_APP, type AppSettings } from './settings/app-settings.ts';
+import { DEFAULT_APP_SETTINGS, readAppSettings, SETTING_APP, type AppSettings } from './settings/app-settings.ts';
+import { checkAppSettings } from './settings/check-app-settings.ts';
 import { applyTheme } from './theme.ts';
 
 /** Page animations off when the person or the phone asks for reduced motion (field-traps ). */
@@ -56,7 +56,7 @@ export function App({ services }: { services: Services }) {
   const handle: SettingsHandle = useMemo(() => ({
     settings,
     save: async (patch) => {
-      const next = validateRecord(AppSettingsSchema, { ...settings, ...patch }, 'settings');
+      const next = await checkAppSettings({ ...settings, ...patch });
       await writeSetting(services.store.db, SETTING_APP, next);
     },
   }), [settings, services]);

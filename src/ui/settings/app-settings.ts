@@ -1,7 +1,12 @@
 // Device preferences (kept in the store's local settings, never synced). Campaign-level solve
 // settings (records.ts CampaignSettings, synced) override the defaults here.
-import { z } from 'zod';
-import { ESTIMATOR_IDS, LENGTH_UNIT_IDS, MODEL_IDS, type CampaignSettings } from '../../campaign/records.ts';
+// Reading them at start-up uses the small per-field checks below; writing them passes the zod
+// schema (app-settings-schema.ts, loaded with the first save by check-app-settings.ts), so the
+// first screen needs no zod. test/ui/app-settings.test.ts holds both to the same answers.
+import {
+  ESTIMATOR_IDS, LENGTH_UNIT_IDS, MODEL_IDS, type EstimatorId, type LengthUnitId, type ModelId,
+} from '../../campaign/record-enums.ts';
+import type { CampaignSettings } from '../../campaign/records.ts';
 import type { SolveRequestOptions } from '../../worker/index.ts';
 
 export const SETTING_APP = 'app';
@@ -9,23 +14,22 @@ export const SETTING_APP = 'app';
 export const THEMES = ['system', 'light', 'dark'] as const;
 export const ANGLE_FORMATS = ['dms', 'decimal'] as const;
 
-export const AppSettingsSchema = z.strictObject({
-  estimator: z.enum(ESTIMATOR_IDS),
-  model: z.enum(MODEL_IDS),
-  referenceEllipsoid: z.string().min(1).max(40),
-  suspectThreshold: z.number().finite().min(1, 'at least 1').max(20, 'at most 20'),
-  lengthUnit: z.enum(LENGTH_UNIT_IDS),
-  angleFormat: z.enum(ANGLE_FORMATS),
-  theme: z.enum(THEMES),
-  highContrast: z.boolean(),
-  reduceMotion: z.boolean(),
+export interface AppSettings {
+  estimator: EstimatorId;
+  model: ModelId;
+  referenceEllipsoid: string;
+  suspectThreshold: number;
+  lengthUnit: LengthUnitId;
+  angleFormat: (typeof ANGLE_FORMATS)[number];
+  theme: (typeof THEMES)[number];
+  highContrast: boolean;
+  reduceMotion: boolean;
   /** Name written on exclusions ("excluded by"). */
-  observer: z.string().max(200),
-  gnssMinFixes: z.number().int().min(2, 'at least 2').max(500),
-  gnssMinSpanS: z.number().finite().min(0).max(3600),
-  gnssMaxAccuracyM: z.number().finite().positive().max(500),
-});
-export type AppSettings = z.infer<typeof AppSettingsSchema>;
+  observer: string;
+  gnssMinFixes: number;
+  gnssMinSpanS: number;
+  gnssMaxAccuracyM: number;
+}
 
 export const DEFAULT_APP_SETTINGS: AppSettings = {
   estimator: 'huber',
@@ -43,17 +47,41 @@ export const DEFAULT_APP_SETTINGS: AppSettings = {
   gnssMaxAccuracyM: 15,
 };
 
+const oneOf = (list: readonly string[]) => (v: unknown): boolean => typeof v === 'string' && list.includes(v);
+const finiteIn = (min: number, max: number) => (v: unknown): boolean =>
+  typeof v === 'number' && Number.isFinite(v) && v >= min && v <= max;
+const textOf = (min: number, max: number) => (v: unknown): boolean => typeof v === 'string' && v.length >= min && v.length <= max;
+const isBoolean = (v: unknown): boolean => typeof v === 'boolean';
+
+/**
+ * Does a stored value pass its field of the settings schema? The same bounds as
+ * AppSettingsSchema, field by field (string lengths in UTF-16 units, as zod counts them).
+ */
+export const APP_SETTING_CHECKS: { readonly [K in keyof AppSettings]: (v: unknown) => boolean } = {
+  estimator: oneOf(ESTIMATOR_IDS),
+  model: oneOf(MODEL_IDS),
+  referenceEllipsoid: textOf(1, 40),
+  suspectThreshold: finiteIn(1, 20),
+  lengthUnit: oneOf(LENGTH_UNIT_IDS),
+  angleFormat: oneOf(ANGLE_FORMATS),
+  theme: oneOf(THEMES),
+  highContrast: isBoolean,
+  reduceMotion: isBoolean,
+  observer: textOf(0, 200),
+  gnssMinFixes: (v) => Number.isSafeInteger(v) && finiteIn(2, 500)(v),
+  gnssMinSpanS: finiteIn(0, 3600),
+  gnssMaxAccuracyM: (v) => finiteIn(0, 500)(v) && v !== 0,
+};
+
+const isSettingKey = (k: string): k is keyof AppSettings => Object.prototype.hasOwnProperty.call(APP_SETTING_CHECKS, k);
+
 /** Stored settings merged over the defaults; an unreadable stored value falls back field by field. */
 export function readAppSettings(stored: unknown): AppSettings {
   const out: Record<string, unknown> = { ...DEFAULT_APP_SETTINGS };
   if (stored && typeof stored === 'object') {
-    const shape = AppSettingsSchema.shape;
-    for (const [k, v] of Object.entries(stored)) {
-      const field = shape[k as keyof typeof shape];
-      if (field?.safeParse(v).success) out[k] = v;
-    }
+    for (const [k, v] of Object.entries(stored)) if (isSettingKey(k) && APP_SETTING_CHECKS[k](v)) out[k] = v;
   }
-  return out as AppSettings;
+  return out as unknown as AppSettings;
 }
 
 /** Solve options for a campaign: its own synced settings first, then this device's defaults. */
