@@ -5,3 +5,4 @@ export { StoragePanel } from './storage-panel.tsx';
 export { UpdatePrompt } from './update-prompt.tsx';
 export { FitChart } from './fit-chart.tsx';
 export { SaveStatus, useSaveState, type SaveState } from './save-status.tsx';
+export { useAlert } from './use-alert.ts';

@@ -4,7 +4,7 @@
 // an exclusion record (undo deletes it). Flags are never applied silently (design.md "Flags").
 import {
   IonBackButton, IonButton, IonButtons, IonContent, IonHeader, IonItem, IonLabel, IonList, IonListHeader, IonNote,
-  IonPage, IonSelect, IonSelectOption, IonTitle, IonToolbar, useIonAlert,
+  IonPage, IonSelect, IonSelectOption, IonTitle, IonToolbar,
 } from '@ionic/react';
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useState } from 'react';
@@ -14,6 +14,7 @@ import type { ReadingResult } from '../../campaign/result.ts';
 import { ELLIPSOIDS, isEllipsoidId } from '../../geodesy/index.ts';
 import { getCampaign } from '../../store/index.ts';
 import { FitChart, SaveStatus, useSaveState } from '../components/index.ts';
+import { useAlert } from '../components/use-alert.ts';
 import { formatSigned, withUncertainty } from '../format/index.ts';
 import { useAppSettings, useLiveFit, useServices } from '../live/index.ts';
 
@@ -32,7 +33,7 @@ export function FitPage() {
   const navigate = useNavigate();
   const fit = useLiveFit(cid);
   const campaign = useLiveQuery(() => getCampaign(store.db, cid), [store, cid]);
-  const [presentAlert] = useIonAlert();
+  const presentAlert = useAlert();
   const action = useSaveState();
   const [showAll, setShowAll] = useState(false);
   const r = fit.result;
