@@ -14,6 +14,19 @@ export async function writeSetting(db: ArcfieldDb, key: string, value: unknown):
   await db.settings.put({ key, value });
 }
 
+/**
+ * Read-modify-write of one setting in one transaction, so two quick edits (each merging its patch
+ * into the stored value) cannot lose one another. `next` runs inside the transaction and must not
+ * await anything but Dexie; if it throws, nothing is written. Returns what was written.
+ */
+export async function updateSetting<T>(db: ArcfieldDb, key: string, next: (stored: unknown) => T): Promise<T> {
+  return db.transaction('rw', db.settings, async () => {
+    const value = next((await db.settings.get(key))?.value);
+    await db.settings.put({ key, value });
+    return value;
+  });
+}
+
 export async function saveDraft(db: ArcfieldDb, form: string, value: unknown): Promise<void> {
   await db.settings.put({ key: DRAFT_PREFIX + form, value: { value, savedAt: new Date().toISOString() } });
 }

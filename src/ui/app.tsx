@@ -6,14 +6,14 @@ import { useLiveQuery } from 'dexie-react-hooks';
 import { Suspense, useEffect, useMemo, type ReactNode } from 'react';
 import { Navigate, Route } from 'react-router-dom';
 // Modules by path rather than folder indexes, as in main.tsx (keeps the first chunk small).
-import { readSetting, writeSetting } from '../store/local-settings.ts';
+import { readSetting, updateSetting } from '../store/local-settings.ts';
 import { UpdatePrompt } from './components/update-prompt.tsx';
 import { ServicesContext, SettingsContext, type Services, type SettingsHandle } from './live/services.tsx';
 import {
   ArcEntryPage, CampaignPage, CampaignsPage, FitPage, LatitudeEntryPage, ReadingsPage, SettingsPage, StationPage, SyncPage,
 } from './pages/index.ts';
 import { DEFAULT_APP_SETTINGS, readAppSettings, SETTING_APP, type AppSettings } from './settings/app-settings.ts';
-import { checkAppSettings } from './settings/check-app-settings.ts';
+import { loadAppSettingsCheck } from './settings/check-app-settings.ts';
 import { applyTheme } from './theme.ts';
 
 /** Page animations off when the person or the phone asks for reduced motion (field-traps ). */
@@ -56,8 +56,10 @@ export function App({ services }: { services: Services }) {
   const handle: SettingsHandle = useMemo(() => ({
     settings,
     save: async (patch) => {
-      const next = await checkAppSettings({ ...settings, ...patch });
-      await writeSetting(services.store.db, SETTING_APP, next);
+      // The patch goes over the stored settings inside one transaction (not over this render's
+      // copy): a second edit made before the first is written must not undo it.
+      const check = await loadAppSettingsCheck();
+      await updateSetting(services.store.db, SETTING_APP, (stored) => check({ ...readAppSettings(stored), ...patch }));
     },
   }), [settings, services]);
 

@@ -3,10 +3,19 @@
 import { RecordChecksUnavailableError } from '../../store/load-record-checks.ts';
 import type { AppSettings } from './app-settings.ts';
 
-/** The settings as the schema parses them; ValidationError if refused, RecordChecksUnavailableError if the schema cannot load. */
-export async function checkAppSettings(input: unknown): Promise<AppSettings> {
+/**
+ * The schema's parse function (the parsed settings, or a ValidationError naming each field), loaded
+ * on first use; RecordChecksUnavailableError when its chunk cannot load. Load it before opening a
+ * transaction: a Dexie transaction must not await anything else.
+ */
+export async function loadAppSettingsCheck(): Promise<(input: unknown) => AppSettings> {
   const schema = await import('./app-settings-schema.ts').catch((err: unknown) => {
-    throw new RecordChecksUnavailableError('settings', input, err);
+    throw new RecordChecksUnavailableError('settings', null, err);
   });
-  return schema.parseAppSettings(input);
+  return schema.parseAppSettings;
+}
+
+/** The settings as the schema parses them (see loadAppSettingsCheck). */
+export async function checkAppSettings(input: unknown): Promise<AppSettings> {
+  return (await loadAppSettingsCheck())(input);
 }
