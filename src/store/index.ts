@@ -24,7 +24,8 @@ export {
   storageStatus, requestPersistenceOnce, browserStorage, STORAGE_WARN_FRACTION, SETTING_PERSIST,
   SETTING_LAST_SYNC_PREFIX, type StorageStatus, type StorageManagerLike,
 } from './storage-status.ts';
-export { readSetting, writeSetting, saveDraft, loadDraft, clearDraft, DRAFT_PREFIX } from './local-settings.ts';
+export { readSetting, writeSetting, updateSetting, saveDraft, loadDraft, clearDraft, DRAFT_PREFIX } from './local-settings.ts';
 export { validateRecord } from './validate-record.ts';
+export { loadRecordChecks, RecordChecksUnavailableError, type RecordChecksModule } from './load-record-checks.ts';
 export { DexieSyncStore, toWireChange, SETTING_CURSOR_PREFIX } from './dexie-sync-store.ts';
 export { CampaignMirror, lastChangeSeq, type MirrorRefresh } from './campaign-mirror.ts';
