@@ -178,10 +178,11 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const qdiag = new Float64Array(p);
   const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
   // Newton is tried once the iterate is close (a warm start is taken to be). Huber's ρ is convex
-  // and piecewise quadratic, and its L1 start has nearly the final partition: Newton from the first
-  // step (an uphill step is undone as below), which saves one pass on the benchmark data.
+  // and piecewise quadratic, and its L1 start has nearly the final partition: every step is a
+  // Newton step (the active-set iteration; an uphill one is undone as below), which saved one or
+  // two passes on the benchmark data.
   let newtonAllowed = true;
-  let lastChange = start.warm || rho.piecewiseQuadratic ? 0 : Infinity;
+  let lastChange = start.warm ? 0 : Infinity;
   let lastWasNewton = false;
   let objectiveBefore = Infinity;
   // The outputs of the last pass are those of β (no step taken since): the final pass is saved.
@@ -191,7 +192,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
     // equations of the step to take (IRLS, or Newton when one is due); XᵀWX for the covariance on
     // the first pass only.
-    const planNewton = newtonAllowed && lastChange < NEWTON_SWITCH;
+    const planNewton = newtonAllowed && (lastChange < NEWTON_SWITCH || rho.piecewiseQuadratic);
     chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, firstPass ? wsPrior : null);
     firstPass = false;
     outputsCurrent = true;
