@@ -13,6 +13,7 @@
 // Covariance σ₀²(XᵀWX)⁻¹ with σ₀² = Σwr²/(n − p); the expected σ₀² is 1 when wᵢ = 1/σᵢ².
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import { interceptColumn, isNegligiblePivot, noSolution, residualsOf, validateProblem } from './problem.ts';
+import { scratchFloat64 } from './scratch.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 import { accumulateNormal, accumulateResidualRhs, cofactorMatrix, createNormalWorkspace, factorNormal, solveCorrection } from './weighted-normal.ts';
 
@@ -107,7 +108,8 @@ function solveNormal(problem: LinearProblem): Solution | null {
   if (!(ratio >= NORMAL_MIN_PIVOT)) return null;
   solveCorrection(ws, delta);
   for (let j = 0; j < p; j++) beta[j] += delta[j];
-  const r = new Float64Array(problem.n);
+  // The refinement's residuals are temporary (the returned ones are computed at the final β).
+  const r = scratchFloat64('least-squares-refine', problem.n);
   for (let step = 0; step < REFINEMENT_STEPS; step++) {
     // The Gram matrix does not depend on β: keep its factor, only the right-hand side is new.
     accumulateResidualRhs(ws, problem, beta, r);
