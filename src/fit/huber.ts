@@ -27,8 +27,8 @@ export function huberRho(k: number): RhoFunction {
       return a <= k ? 1 : k / a;
     },
     sweep: (r, sw, invScale, v, h, side, robustWeights, state) => {
-      // Two copies of the loop, with and without prior weights: the unweighted one (the usual
-      // large data set) skips √w and its products. ψ′ ∈ {0, 1}, so Σψ′² = Σψ′.
+      // ψ′ ∈ {0, 1}, so Σψ′² = Σψ′ (the count inside ±k). `sw === null` is loop-invariant: the
+      // branch on it is always predicted.
       let objective = 0;
       let changed = false;
       let sumPsi2 = 0;
@@ -36,56 +36,30 @@ export function huberRho(k: number): RhoFunction {
       const half = 0.5 * k * k;
       const k2 = k * k;
       const m = r.length;
-      if (sw === null) {
-        for (let i = 0; i < m; i++) {
-          const u = r[i] * invScale;
-          const a = Math.abs(u);
-          let sd = 0;
-          if (a <= k) {
-            objective += 0.5 * u * u;
-            v[i] = 1;
-            h[i] = 1;
-            robustWeights[i] = 1;
-            sumPsi2 += u * u;
-            sd = 1;
-          } else {
-            objective += k * a - half;
-            const wt = k / a;
-            v[i] = wt;
-            h[i] = 0;
-            robustWeights[i] = wt;
-            sumPsi2 += k2;
-          }
-          inside += sd;
-          if (side[i] !== sd) changed = true;
-          side[i] = sd;
+      for (let i = 0; i < m; i++) {
+        const w = sw === null ? 1 : sw[i];
+        const u = w * r[i] * invScale;
+        const a = Math.abs(u);
+        const w2 = w * w;
+        let sd = 0;
+        if (a <= k) {
+          objective += 0.5 * u * u;
+          v[i] = w2;
+          h[i] = w2;
+          robustWeights[i] = 1;
+          sumPsi2 += u * u;
+          sd = 1;
+        } else {
+          objective += k * a - half;
+          const wt = k / a;
+          v[i] = w2 * wt;
+          h[i] = 0;
+          robustWeights[i] = wt;
+          sumPsi2 += k2;
         }
-      } else {
-        for (let i = 0; i < m; i++) {
-          const w = sw[i];
-          const u = w * r[i] * invScale;
-          const a = Math.abs(u);
-          const w2 = w * w;
-          let sd = 0;
-          if (a <= k) {
-            objective += 0.5 * u * u;
-            v[i] = w2;
-            h[i] = w2;
-            robustWeights[i] = 1;
-            sumPsi2 += u * u;
-            sd = 1;
-          } else {
-            objective += k * a - half;
-            const wt = k / a;
-            v[i] = w2 * wt;
-            h[i] = 0;
-            robustWeights[i] = wt;
-            sumPsi2 += k2;
-          }
-          inside += sd;
-          if (side[i] !== sd) changed = true;
-          side[i] = sd;
-        }
+        inside += sd;
+        if (side[i] !== sd) changed = true;
+        side[i] = sd;
       }
       state.changed = changed;
       state.sumPsi2 += sumPsi2;
