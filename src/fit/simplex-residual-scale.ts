@@ -69,19 +69,31 @@ export class ScaleCollector {
     const k1 = (n - 1) >> 1;
     const k2 = n >> 1;
     if (!(this.medBelow <= k1 && k2 < this.medBelow + this.medCount)) return null;
-    const med = 0.5 * (selectInPlace(this.medBuf, this.medCount, k1 - this.medBelow) +
-      selectInPlace(this.medBuf, this.medCount, k2 - this.medBelow));
+    const med = 0.5 * middlePair(this.medBuf, this.medCount, k1 - this.medBelow, k2 - this.medBelow);
     const D = Math.abs(med - this.centre);
     if (!(this.madBelow <= k1 && k2 < this.madBelow + this.madCount)) return null;
     const buf = this.madBuf;
     for (let i = 0; i < this.madCount; i++) buf[i] = Math.abs(buf[i] - med);
-    const a1 = selectInPlace(buf, this.madCount, k1 - this.madBelow);
     const a2 = selectInPlace(buf, this.madCount, k2 - this.madBelow);
+    const a1 = k1 === k2 ? a2 : maxBefore(buf, k2 - this.madBelow);
     const lo = this.madLo + D;
     const hi = this.madHi - D;
     if (!(a1 >= lo && a2 <= hi)) return null;
     return MAD_CONSISTENCY * 0.5 * (a1 + a2);
   }
+}
+
+/** a[j1] + a[j2] of the sorted order, j2 = j1 or j1 + 1: one selection (the lower one is the largest value left of the upper). */
+function middlePair(a: Float64Array, count: number, j1: number, j2: number): number {
+  const hi = selectInPlace(a, count, j2);
+  return (j1 === j2 ? hi : maxBefore(a, j2)) + hi;
+}
+
+/** Largest of a[0..j) (after a selection of rank j, these are the values ranked below it). */
+function maxBefore(a: Float64Array, j: number): number {
+  let m = a[0];
+  for (let i = 1; i < j; i++) if (a[i] > m) m = a[i];
+  return m;
 }
 
 /**
