@@ -116,10 +116,9 @@ export const IRLS_CHUNK_ROWS = 4096;
 /** Zero residuals for a chunk: XᵀWX alone (the right-hand side is not used). */
 const ZERO_ROWS = new Float64Array(IRLS_CHUNK_ROWS);
 
-/** n-sized arrays a caller can lend to the fit (the L1 start's residuals). */
+/** An n-sized array a caller can lend to the fit (the L1 start's residuals, overwritten). */
 export interface IrlsBuffers {
   residuals?: Float64Array;
-  robustWeights?: Float64Array;
 }
 
 /**
@@ -169,7 +168,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const rounding = IRLS_ROUNDING_FACTOR * Number.EPSILON * yMax;
   const out: PassOutput = {
     residuals: lent.residuals && lent.residuals.length === n ? lent.residuals : new Float64Array(n),
-    robustWeights: lent.robustWeights && lent.robustWeights.length === n ? lent.robustWeights : new Float64Array(n),
+    robustWeights: new Float64Array(n),
     side: new Uint8Array(n),
     objective: 0, changed: false, sumPsi2: 0, sumD: 0, sumD2: 0,
   };
