@@ -173,7 +173,7 @@ async function main(): Promise<void> {
     ...base,
     machine, loadAverageAtEnd: loadavg().map((v) => Math.round(v * 100) / 100), rounds,
     rules: {
-      timing: 'each side times itself in-process: one warm-up call, then batched repeats within a budget (bench/harness/timing.ts); median, min, max reported; start-up and file reading excluded',
+      timing: 'each side times itself in-process: warm-up calls for a second, then batched repeats within a budget (bench/harness/timing.ts); median, min, max reported; start-up and file reading excluded',
       floor: 'one plain pass Σ|yᵢ − xᵢᵀβ| for the true β over the same X and y, timed in the same process as our fit',
       fastestPeer: 'fastest peer (not check) that finished, regardless of its accuracy (an inexact fast peer lowers our speed-up)',
       objectiveExactness: `L1 and L∞: (ours − best)/best ≤ ${OBJECTIVE_REL_TOL}, best = lowest objective among all peers and checks, every objective recomputed here from the coefficients on the same data (Neumaier sum)`,

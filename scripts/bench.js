@@ -64,5 +64,14 @@ if (!noInstall) {
   else console.error('bench: reference tools present (R quantreg, MASS; python3 numpy, scipy, statsmodels)');
 }
 
-const r = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'bench', 'run-bench.ts'), ...benchArgs], { cwd: root, stdio: 'inherit' });
+// Every side (our Node process, R, Python) inherits one glibc malloc setting: large blocks on
+// transparent huge pages and freed memory kept for reuse rather than handed back to the kernel.
+// Why: on the bench machine (a small VM) a fresh 8 MB buffer took 6–25 ms to fault in 4 KiB
+// pages against under 1 ms to rewrite, so a fit's time depended on when the allocator last gave
+// memory back. The same setting for all sides keeps the ratios fair; a GLIBC_TUNABLES already in
+// the environment is left as it is (set it to an empty string to measure the defaults). The value
+// is recorded in bench/results/latest.json (machine.glibcTunables).
+const BENCH_GLIBC_TUNABLES = 'glibc.malloc.hugetlb=1:glibc.malloc.trim_threshold=268435456:glibc.malloc.mmap_threshold=33554432';
+const env = { ...process.env, GLIBC_TUNABLES: process.env.GLIBC_TUNABLES ?? BENCH_GLIBC_TUNABLES };
+const r = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'bench', 'run-bench.ts'), ...benchArgs], { cwd: root, stdio: 'inherit', env });
 process.exit(r.status ?? 1);

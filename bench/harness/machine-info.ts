@@ -14,6 +14,8 @@ export interface MachineInfo {
   packages: Record<string, string | null>;
   /** BLAS threading as the peers saw it (unset = the library default). */
   blasThreads: string;
+  /** The glibc malloc setting every side ran with (scripts/bench.js). */
+  glibcTunables: string;
   loadAverageAtStart: number[];
 }
 
@@ -39,6 +41,7 @@ export function machineInfo(av: Availability): MachineInfo {
     python: av.python.version,
     packages: { ...av.R.packages, ...av.python.packages, ...av.node.packages },
     blasThreads: ['OPENBLAS_NUM_THREADS', 'OMP_NUM_THREADS', 'MKL_NUM_THREADS'].map((k) => `${k}=${process.env[k] ?? 'unset'}`).join(' '),
+    glibcTunables: process.env.GLIBC_TUNABLES ?? 'unset',
     loadAverageAtStart: loadavg().map((v) => Math.round(v * 100) / 100),
   };
 }

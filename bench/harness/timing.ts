@@ -1,10 +1,14 @@
 // The one timing protocol of the benchmark, shared in spirit with bench/peers/dataset.py and
 // bench/peers/dataset.R (keep the three in step):
-//   1. one first call (warm-up: JIT, caches, lazy allocation);
+//   1. one first call;
 //   2. if the first call took more than LONG_RUN_SECONDS, it is the only sample (re-running a
 //      40 s LP three times to get a median would triple the run for little information);
-//   3. otherwise one calibration call (the first is often several times slower than the rest),
-//      then k calls per sample, k = ⌈minSample/c⌉ with c the faster of the two, so a sample is long
+//   3. otherwise warm-up calls until WARMUP_SECONDS have been spent (at least one after the
+//      first). Why a second of it: V8 tiers a function up over several calls, and a process's
+//      first large buffers are faulted in from the kernel until freed ones are recycled; on the
+//      bench machine a 10⁶-row fit took 2–5× its steady time for its first ~10 calls (a second
+//      at most). R and Python run the same warm-up, so each side is timed in its steady state;
+//   4. k calls per sample, k = ⌈minSample/c⌉ with c the fastest warm-up call, so a sample is long
 //      enough for the clock, and clamp(⌊budget/(c·k)⌋, MIN_REPEATS, maxRepeats) samples: a median
 //      of at least three warm samples even when the budget is short.
 // Every figure is wall-clock seconds per call from process.hrtime (ns resolution).
@@ -20,8 +24,10 @@ export interface TimingOptions {
 /** A call longer than this is timed once (keep equal to LONG_RUN_SECONDS in dataset.py / dataset.R). */
 export const LONG_RUN_SECONDS = 10;
 export const MIN_REPEATS = 3;
+/** Warm-up time spent before sampling (keep equal to WARMUP_SECONDS in dataset.py / dataset.R). */
+export const WARMUP_SECONDS = 1;
 
-export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 2, maxRepeats: 7, minSampleSeconds: 0.02 };
+export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 2, maxRepeats: 9, minSampleSeconds: 0.02 };
 
 export interface TimingSummary {
   medianSeconds: number;
@@ -31,6 +37,8 @@ export interface TimingSummary {
   samples: number[];
   callsPerSample: number;
   firstCallSeconds: number;
+  /** Calls made before sampling, the first included. */
+  warmupCalls: number;
 }
 
 export function median(values: readonly number[]): number {
@@ -51,12 +59,21 @@ export function timeCall<T>(call: () => T, options: TimingOptions = DEFAULT_TIMI
   const first = seconds(t0);
   let samples: number[];
   let k = 1;
+  let warmupCalls = 1;
   if (first > LONG_RUN_SECONDS) {
     samples = [first];
   } else {
-    t0 = process.hrtime.bigint();
-    sink(call());
-    const calibration = Math.max(Math.min(first, seconds(t0)), 1e-9);
+    let spent = first;
+    let fastest = first;
+    do {
+      t0 = process.hrtime.bigint();
+      sink(call());
+      const d = seconds(t0);
+      spent += d;
+      fastest = Math.min(fastest, d);
+      warmupCalls++;
+    } while (spent < WARMUP_SECONDS);
+    const calibration = Math.max(fastest, 1e-9);
     k = Math.max(1, Math.ceil(options.minSampleSeconds / calibration));
     const repeats = Math.max(Math.min(MIN_REPEATS, options.maxRepeats), Math.min(options.maxRepeats, Math.floor(options.budgetSeconds / (calibration * k))));
     samples = [];
@@ -73,5 +90,6 @@ export function timeCall<T>(call: () => T, options: TimingOptions = DEFAULT_TIMI
     samples,
     callsPerSample: k,
     firstCallSeconds: first,
+    warmupCalls,
   };
 }

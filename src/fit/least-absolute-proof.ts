@@ -125,31 +125,6 @@ export function proveByBand(problem: LinearProblem, frame: ColumnFrame, band: Ba
   return { ok, move, maxDual, gapBound, fullRankProved, reason };
 }
 
-/** Raw residuals y − Xβ of every row (the result's residuals). */
-export function residualPass(problem: LinearProblem, beta: Float64Array): Float64Array {
-  const { n, p, X, y } = problem;
-  const out = new Float64Array(n);
-  if (p === 2) {
-    const b0 = beta[0];
-    const b1 = beta[1];
-    for (let i = 0; i < n; i++) out[i] = y[i] - b0 * X[2 * i] - b1 * X[2 * i + 1];
-    return out;
-  }
-  if (p === 3) {
-    const b0 = beta[0];
-    const b1 = beta[1];
-    const b2 = beta[2];
-    for (let i = 0; i < n; i++) out[i] = y[i] - b0 * X[3 * i] - b1 * X[3 * i + 1] - b2 * X[3 * i + 2];
-    return out;
-  }
-  for (let i = 0; i < n; i++) {
-    let f = 0;
-    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
-    out[i] = y[i] - f;
-  }
-  return out;
-}
-
 /** γ_k = kε/(1 − kε) (Higham, "Accuracy and Stability of Numerical Algorithms", §3.1). */
 function gamma_(k: number): number {
   return (k * Number.EPSILON) / (1 - k * Number.EPSILON);

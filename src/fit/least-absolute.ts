@@ -25,14 +25,14 @@
 import { bandFromSubsample, bandHalfWidth, inverseGram, makeBand, widen, withRoundingFloor, type Band } from './least-absolute-band.ts';
 import { certify, finalPass, ROW_ZERO_EPS, type Certificate, type FinalPass } from './least-absolute-certificate.ts';
 import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult, type DescentStart } from './least-absolute-descent.ts';
-import { proveByBand, residualPass, type BandProof } from './least-absolute-proof.ts';
+import { proveByBand, type BandProof } from './least-absolute-proof.ts';
 import { screenRows, type FullScreen } from './least-absolute-screen.ts';
 import { fitSubsample, leastSquaresStart, positionsIn, binarySearch, type SubsampleOptions } from './least-absolute-subsample.ts';
 import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoefficients, type ColumnFrame } from './simplex-frame.ts';
 import { assertProblemShape, systematicSample, unsolved, vetWarmStart } from './simplex-problem.ts';
 import { designRank } from './simplex-rank.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
-import { madScaleInPlace, madScaleOfResiduals, planScale, type ScaleCollector } from './simplex-residual-scale.ts';
+import { madScaleInPlace, planScale, residualsWithScale, type ScaleCollector } from './simplex-residual-scale.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
 /** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
@@ -236,13 +236,12 @@ function finishProven(
   ctx: Context, problem: LinearProblem, beta: Float64Array, basis: Int32Array, betaScreen: Float64Array, screen: FullScreen,
   res: DescentResult, proof: BandProof, how: string,
 ): FitResult {
-  const { p, weights } = problem;
-  const residuals = residualPass(problem, beta);
+  const { p } = problem;
+  const { residuals, scale } = residualsWithScale(problem, beta);
   // Pinned rows kept their sides: Σ sᵢρᵢ(β*) = Σ|ρᵢ(β_s)| − (Σ sᵢaᵢ)·(β* − β_s), linear in β*.
   let objective = screen.pinnedAbs;
   for (let j = 0; j < p; j++) objective -= screen.pinnedSum[j] * (beta[j] - betaScreen[j]);
   for (let k = 0; k < res.residuals.length; k++) objective += Math.abs(res.residuals[k]);
-  const scale = madScaleOfResiduals(residuals, weights);
   if (!proof.fullRankProved) {
     const rank = designRank(problem);
     if (rank.deficient) return rankDeficient(ctx, rank.column, rank.pivots[rank.column], rank.threshold);

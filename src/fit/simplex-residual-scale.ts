@@ -12,7 +12,9 @@
 // are selected directly, so a missed window costs time, never accuracy.
 
 import { MAD_CONSISTENCY, madScaleOverwrite, selectKth } from './robust-scale.ts';
+import { residualsRange } from './problem.ts';
 import { scratchFloat64 } from './scratch.ts';
+import type { LinearProblem } from './types.ts';
 
 /** Up to this many rows the scale is selected directly from all residuals (cheap enough). */
 export const DIRECT_SCALE_MAX_ROWS = 16384;
@@ -152,8 +154,7 @@ export const SCALE_SAMPLE_ROWS = 16384;
 export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Array | undefined): number {
   const n = residuals.length;
   if (n > DIRECT_SCALE_MAX_ROWS) {
-    // A quarter of the rows at most: below that the windows would hold most of them anyway.
-    const count = Math.min(n >> 2, SCALE_SAMPLE_ROWS);
+    const count = scaleSampleCount(n);
     const sample = new Float64Array(count);
     const stride = n / count;
     for (let k = 0; k < count; k++) {
@@ -162,11 +163,55 @@ export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Arr
     }
     const col = planScale(sample, count, n);
     if (col) {
-      countWindows(residuals, weights, col);
+      countWindows(residuals, weights, col, null);
       const scale = col.finish(n);
       if (scale !== null) return scale;
     }
   }
+  return selectedScale(residuals, weights);
+}
+
+/**
+ * The raw residuals y − Xβ of a finished fit (a new array) with the MAD scale of their whitened
+ * values, as `residualsOf` then `madScaleOfResiduals` would give them, in one chunked pass: the
+ * windows are planned from sample residuals computed at β directly, and each chunk is counted
+ * while it is still in cache. At n = 10⁶ this saves re-reading the 8 MB residual array.
+ */
+export function residualsWithScale(problem: LinearProblem, beta: Float64Array): { residuals: Float64Array; scale: number } {
+  const { n, p, X, y, weights } = problem;
+  const residuals = new Float64Array(n);
+  if (n > DIRECT_SCALE_MAX_ROWS) {
+    const count = scaleSampleCount(n);
+    const sample = new Float64Array(count);
+    const stride = n / count;
+    for (let k = 0; k < count; k++) {
+      const i = Math.floor(k * stride);
+      let f = 0;
+      for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+      sample[k] = (weights ? Math.sqrt(weights[i]) : 1) * (y[i] - f);
+    }
+    const col = planScale(sample, count, n);
+    if (col) {
+      countWindows(residuals, weights, col, { problem, beta });
+      const scale = col.finish(n);
+      if (scale !== null) return { residuals, scale };
+    } else {
+      residualsRange(problem, beta, 0, n, residuals);
+    }
+  } else {
+    residualsRange(problem, beta, 0, n, residuals);
+  }
+  return { residuals, scale: selectedScale(residuals, weights) };
+}
+
+/** A quarter of the rows at most: below that the windows would hold most of them anyway. */
+function scaleSampleCount(n: number): number {
+  return Math.min(n >> 2, SCALE_SAMPLE_ROWS);
+}
+
+/** The MAD scale by direct selection among all n whitened residuals (a scratch copy). */
+function selectedScale(residuals: Float64Array, weights: Float64Array | undefined): number {
+  const n = residuals.length;
   const all = scratchFloat64('mad-scale', n);
   if (weights) for (let i = 0; i < n; i++) all[i] = Math.sqrt(weights[i]) * residuals[i];
   else all.set(residuals);
@@ -177,14 +222,18 @@ export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Arr
  * The counting pass of `madScaleOfResiduals`, branch-free: every value is written at the end of
  * both buffers and the ends advance by the 0/1 window tests (a branch on them would mispredict
  * for the ~10 % of rows inside a window, at random). Room for a whole chunk is made before it.
+ * With `compute`, each chunk's residuals at β are first written into `residuals` (then counted
+ * while in cache).
  */
-function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector): void {
+function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector,
+  compute: { problem: LinearProblem; beta: Float64Array } | null): void {
   const n = residuals.length;
   const counts = new Float64Array(4);
   counts[0] = col.medCount;
   counts[1] = col.madCount;
   for (let from = 0; from < n; from += COUNT_CHUNK) {
     const to = Math.min(n, from + COUNT_CHUNK);
+    if (compute) residualsRange(compute.problem, compute.beta, from, to - from, residuals.subarray(from, to));
     col.ensureRoom(counts[0], counts[1], to - from);
     if (weights) countChunkWeighted(residuals, weights, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
     else countChunk(residuals, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
@@ -200,8 +249,8 @@ function countChunk(
   rho: Float64Array, med: Float64Array, mad: Float64Array, medLo: number, medHi: number, centre: number, madLo: number, madHi: number,
   from: number, to: number, counts: Float64Array,
 ): void {
-  let mc = counts[0];
-  let ac = counts[1];
+  let mc = counts[0] | 0;
+  let ac = counts[1] | 0;
   let medBelow = 0;
   let madBelow = 0;
   for (let i = from; i < to; i++) {
@@ -226,8 +275,8 @@ function countChunkWeighted(
   residuals: Float64Array, weights: Float64Array, med: Float64Array, mad: Float64Array, medLo: number, medHi: number, centre: number,
   madLo: number, madHi: number, from: number, to: number, counts: Float64Array,
 ): void {
-  let mc = counts[0];
-  let ac = counts[1];
+  let mc = counts[0] | 0;
+  let ac = counts[1] | 0;
   let medBelow = 0;
   let madBelow = 0;
   for (let i = from; i < to; i++) {
