@@ -119,6 +119,8 @@ const ZERO_ROWS = new Float64Array(IRLS_CHUNK_ROWS);
 /** An n-sized array a caller can lend to the fit (the L1 start's residuals, overwritten). */
 export interface IrlsBuffers {
   residuals?: Float64Array;
+  /** The lent residuals are y − Xβ at the start's coefficients (the L1 fit's own): the first pass reuses them. */
+  residualsAtStart?: boolean;
 }
 
 /**
@@ -157,7 +159,6 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const intercept = interceptColumn(problem);
   const ws = createNormalWorkspace(problem, intercept);
   const wsNewton = cloneNormalWorkspace(ws);
-  const wsPrior = cloneNormalWorkspace(ws);
   // floorⱼ = s/rmsⱼ: the change of βⱼ that moves the whitened fit by one scale unit on average;
   // relative change is measured against max(|βⱼ|, floorⱼ) so a coefficient near 0 can converge.
   const floor = new Float64Array(p);
@@ -186,14 +187,15 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let objectiveBefore = Infinity;
   // The outputs of the last pass are those of β (no step taken since): the final pass is saved.
   let outputsCurrent = false;
-  let firstPass = true;
+  // The first pass at the L1 start can use the L1 fit's residuals (the same formula, bit for bit).
+  let residualsReady = lent.residualsAtStart === true && out.residuals === lent.residuals
+    && beta.every((b, j) => b === start.coefficients[j]);
   while (stop.iterations < maxIterations) {
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
-    // equations of the step to take (IRLS, or Newton when one is due); XᵀWX for the covariance on
-    // the first pass only.
+    // equations of the step to take (IRLS, or Newton when one is due).
     const planNewton = newtonAllowed && (lastChange < NEWTON_SWITCH || rho.piecewiseQuadratic);
-    chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, firstPass ? wsPrior : null);
-    firstPass = false;
+    chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, residualsReady);
+    residualsReady = false;
     outputsCurrent = true;
     const objective = out.objective;
     if (lastWasNewton && rho.piecewiseQuadratic && !out.changed) {
@@ -258,8 +260,8 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     }
   }
   // The returned residuals, weights and Σρ belong to the returned β.
-  if (!outputsCurrent) chunk.sweep(rho, beta, s, out, null, null, null);
-  return finish(problem, rho, start, beta, out, stop, wsPrior);
+  if (!outputsCurrent) chunk.sweep(rho, beta, s, out, null, null, false);
+  return finish(problem, rho, start, beta, out, stop, intercept);
 }
 
 /** What a pass leaves: the n-sized outputs at its β and the sums over all rows. */
@@ -289,16 +291,14 @@ class Chunk {
 
   /**
    * At β, chunk by chunk: residuals and robust weights into `out`, Σρ, side changes and the
-   * covariance sums; IRLS normal equations into ws, Newton's into wsNewton and XᵀWX (prior
-   * weights) into wsPrior when given.
+   * covariance sums; IRLS normal equations into ws and Newton's into wsNewton when given.
    */
   sweep(rho: RhoFunction, beta: Float64Array, s: number, out: PassOutput, ws: NormalWorkspace | null, wsNewton: NormalWorkspace | null,
-    wsPrior: NormalWorkspace | null): void {
+    residualsReady: boolean): void {
     const { problem, v, h, sw, state } = this;
     const { n, weights } = problem;
     if (ws) resetNormal(ws);
     if (wsNewton) resetNormal(wsNewton);
-    if (wsPrior) resetNormal(wsPrior);
     let objective = 0;
     let changed = false;
     state.sumPsi2 = 0;
@@ -310,13 +310,12 @@ class Chunk {
       const m = Math.min(IRLS_CHUNK_ROWS, n - start);
       if (weights) for (let i = 0; i < m; i++) sw[i] = Math.sqrt(weights[start + i]);
       const r = residuals.subarray(start, start + m);
-      residualsRange(problem, beta, start, m, r);
+      if (!residualsReady) residualsRange(problem, beta, start, m, r);
       objective += rho.sweep(r, weights ? sw : null, invScale, v, h, side.subarray(start, start + m), robustWeights.subarray(start, start + m), state);
       changed = changed || state.changed;
       if (ws) addRows(ws, problem, start, m, r, v);
       // Same right-hand side Σ√wψ(u)s·z as IRLS (IRLS weights in b); ψ′ weights in the matrix.
       if (wsNewton) addRows(wsNewton, problem, start, m, r, h, v);
-      if (wsPrior) addRows(wsPrior, problem, start, m, ZERO_ROWS, weights ? weights.subarray(start, start + m) : undefined);
     }
     out.objective = objective;
     out.changed = changed;
@@ -339,7 +338,7 @@ interface Stop {
 }
 
 function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta: Float64Array, out: PassOutput, stop: Stop,
-  wsPrior: NormalWorkspace): FitResult {
+  intercept: number): FitResult {
   const { iterations, converged, atRounding, exact, change, tol, newtonSteps, rejected } = stop;
   const { n, p } = problem;
   const s = start.scale;
@@ -374,9 +373,36 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
     const varD = Math.max(0, sumD2 / n - m * m);
     const K = 1 + ((p / n) * varD) / (m * m);
     const factor = ((K * K * (sumPsi2 / (n - p))) / (m * m)) * s * s;
-    if (factorNormal(wsPrior) > 0) result.covariance = cofactorMatrix(wsPrior).map((c) => c * factor);
+    // Computed when first read (one pass over X for XᵀWX), as MASS (summary.rlm) and statsmodels
+    // (RLMResults.bcov, a cached property) do: a refit on every save needs the coefficients and
+    // the flags at once, the covariance only when a report or the figure's sigmas are drawn.
+    let cached: Float64Array | undefined | null = null;
+    Object.defineProperty(result, 'covariance', {
+      enumerable: true,
+      configurable: true,
+      get: (): Float64Array | undefined => {
+        if (cached === null) {
+          const wsPrior = priorNormal(problem, intercept);
+          cached = factorNormal(wsPrior) > 0 ? cofactorMatrix(wsPrior).map((c) => c * factor) : undefined;
+        }
+        return cached;
+      },
+      set: (v: Float64Array | undefined) => { cached = v; },
+    });
   }
   return result;
+}
+
+/** XᵀWX with the prior weights (centred and scaled as in weighted-normal.ts), in one chunked pass. */
+function priorNormal(problem: LinearProblem, intercept: number): NormalWorkspace {
+  const { n, weights } = problem;
+  const ws = createNormalWorkspace(problem, intercept);
+  resetNormal(ws);
+  for (let start = 0; start < n; start += IRLS_CHUNK_ROWS) {
+    const m = Math.min(IRLS_CHUNK_ROWS, n - start);
+    addRows(ws, problem, start, m, ZERO_ROWS, weights ? weights.subarray(start, start + m) : undefined);
+  }
+  return ws;
 }
 
 /** The robust start: the exact L1 fit (injected to keep this file free of it), cold or warm. */
@@ -431,6 +457,8 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
     // The L1 fit's residual array is handed on: the M-fit returns its own residuals in it, so
     // the robust start costs no n-sized array of its own.
     lent.residuals = l1.residuals;
+    const l1Coefficients = l1.coefficients;
+    lent.residualsAtStart = coefficients.every((c, j) => c === l1Coefficients[j]);
     // The L1 fit reports exactly the scale wanted (the MAD of its whitened residuals, computed by
     // simplex-residual-scale.ts without two full selections).
     if (scale === undefined && Number.isFinite(l1.scale) && l1.scale >= 0) scale = l1.scale;

@@ -88,7 +88,8 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
       for (let i = start; i < end; i++) {
         const x0 = X[2 * i];
         const x1 = X[2 * i + 1];
-        const r = y[i] - b0 * x0 - b1 * x1;
+        // The operation order of residualsRange (problem.ts): the M-estimators reuse these bit for bit.
+        const r = y[i] - (x0 * b0 + x1 * b1);
         residuals[i] = r;
         const a = Math.abs(r);
         block += a;

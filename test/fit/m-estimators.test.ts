@@ -51,6 +51,9 @@ for (const [name, fitter] of ESTIMATORS) {
           within(fit.covariance![k], c.statsmodels.covarianceH1[k], 1e-7, '', `H1 covariance[${k}]`, { relative: true, source: SM });
         }
         c.statsmodels.weights.forEach((w, i) => within(fit.robustWeights![i], w, 1e-8, '', `robust weight ${i}`, { source: SM }));
+        // The covariance is computed when first read; a copy (as sent to a worker) carries it.
+        expect(structuredClone(fit).covariance).toEqual(fit.covariance);
+        expect(fit.covariance).toBe(fit.covariance);
       });
       it(`${c.dataset}: from the reference start (isolates IRLS from the L1 solver)`, () => {
         const fit = fitter(loadProblem(c.dataset), { warmStart: { coefficients: Float64Array.from(c.start.coefficients) } });
