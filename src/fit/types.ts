@@ -35,7 +35,10 @@ export interface FitResult {
   converged: boolean;
   /** Why the iteration stopped, in words ("relative change 3e-13 below 1e-12", "exact: optimal basis"). */
   reason: string;
-  /** p×p covariance of the coefficients, row-major, where defined (least squares; asymptotic for M-estimators). */
+  /**
+   * p×p covariance of the coefficients, row-major, where defined (least squares; asymptotic for
+   * M-estimators, computed from the problem's arrays when first read and then cached).
+   */
   covariance?: Float64Array;
   /** IRLS weights of the last iteration (M-estimators), for diagnostics. */
   robustWeights?: Float64Array;
