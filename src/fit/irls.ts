@@ -188,8 +188,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   // The outputs of the last pass are those of β (no step taken since): the final pass is saved.
   let outputsCurrent = false;
   // The first pass at the L1 start can use the L1 fit's residuals (the same formula, bit for bit).
-  let residualsReady = lent.residualsAtStart === true && out.residuals === lent.residuals
-    && beta.every((b, j) => b === start.coefficients[j]);
+  let residualsReady = lent.residualsAtStart === true && out.residuals === lent.residuals;
   while (stop.iterations < maxIterations) {
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
     // equations of the step to take (IRLS, or Newton when one is due).
