@@ -12,6 +12,7 @@
 // Each iteration is one chunked pass over the data (residuals, ψ weights and normal equations
 // together); buffers are allocated once per fit and an iteration allocates nothing n-sized.
 import { InputError } from '../errors.ts';
+import { defineCachedField } from './cached-field.ts';
 import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
@@ -375,18 +376,9 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
     // Computed when first read (one pass over X for XᵀWX), as MASS (summary.rlm) and statsmodels
     // (RLMResults.bcov, a cached property) do: a refit on every save needs the coefficients and
     // the flags at once, the covariance only when a report or the figure's sigmas are drawn.
-    let cached: Float64Array | undefined | null = null;
-    Object.defineProperty(result, 'covariance', {
-      enumerable: true,
-      configurable: true,
-      get: (): Float64Array | undefined => {
-        if (cached === null) {
-          const wsPrior = priorNormal(problem, intercept);
-          cached = factorNormal(wsPrior) > 0 ? cofactorMatrix(wsPrior).map((c) => c * factor) : undefined;
-        }
-        return cached;
-      },
-      set: (v: Float64Array | undefined) => { cached = v; },
+    defineCachedField(result, 'covariance', () => {
+      const wsPrior = priorNormal(problem, intercept);
+      return factorNormal(wsPrior) > 0 ? cofactorMatrix(wsPrior).map((c) => c * factor) : undefined;
     });
   }
   return result;
