@@ -16,6 +16,7 @@ import { defineCachedField } from './cached-field.ts';
 import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
+import { fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
 import { scratchFloat64 } from './scratch.ts';
 import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
 import { addRows, cloneNormalWorkspace, cofactorDiagonal, cofactorMatrix, createNormalWorkspace, factorNormal, resetNormal, solveCorrection, type NormalWorkspace } from './weighted-normal.ts';
@@ -168,10 +169,12 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   if (weights) for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(Math.sqrt(weights[i]) * y[i]));
   else for (let i = 0; i < n; i++) yMax = Math.max(yMax, Math.abs(y[i]));
   const rounding = IRLS_ROUNDING_FACTOR * Number.EPSILON * yMax;
+  const fused = fusedPassApplies(problem, rho);
   const out: PassOutput = {
     residuals: lent.residuals && lent.residuals.length === n ? lent.residuals : new Float64Array(n),
     robustWeights: new Float64Array(n),
-    side: new Uint8Array(n),
+    // The fused pass reads Huber's sides from the robust weights and keeps no side array.
+    side: fused ? new Uint8Array(0) : new Uint8Array(n),
     objective: 0, changed: false, sumPsi2: 0, sumD: 0, sumD2: 0,
   };
   const chunk = new Chunk(problem);
@@ -194,7 +197,8 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
     // equations of the step to take (IRLS, or Newton when one is due).
     const planNewton = newtonAllowed && (lastChange < NEWTON_SWITCH || rho.piecewiseQuadratic);
-    chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, residualsReady);
+    if (fused) fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, residualsReady, planNewton ? wsNewton : ws, planNewton, out);
+    else chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, residualsReady);
     residualsReady = false;
     outputsCurrent = true;
     const objective = out.objective;
@@ -260,7 +264,10 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     }
   }
   // The returned residuals, weights and Σρ belong to the returned β.
-  if (!outputsCurrent) chunk.sweep(rho, beta, s, out, null, null, false);
+  if (!outputsCurrent) {
+    if (fused) fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, false, ws, false, out);
+    else chunk.sweep(rho, beta, s, out, null, null, false);
+  }
   return finish(problem, rho, start, beta, out, stop, intercept);
 }
 
