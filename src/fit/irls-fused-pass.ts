@@ -10,7 +10,7 @@
 // Huber's "did any reading change side of ±k" is read from the previous pass's robust weight
 // (exactly 1 inside, k/|u| < 1 outside), so no side array is kept; for Tukey the flag is not
 // tracked (irls.ts uses it only for piecewise-quadratic ρ) and is reported as true.
-import type { RhoFunction } from './irls.ts';
+import type { RhoFunction } from './rho-function.ts';
 import type { LinearProblem } from './types.ts';
 import type { NormalWorkspace } from './weighted-normal.ts';
 

@@ -17,35 +17,12 @@ import { interceptColumn, noSolution, residualsOf, residualsRange } from './prob
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
 import { fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
+import type { RhoFunction, SweepState } from './rho-function.ts';
 import { scratchFloat64 } from './scratch.ts';
-import type { Estimator, FitOptions, FitResult, LinearProblem } from './types.ts';
+import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 import { addRows, cloneNormalWorkspace, cofactorDiagonal, cofactorMatrix, createNormalWorkspace, factorNormal, resetNormal, solveCorrection, type NormalWorkspace } from './weighted-normal.ts';
 
-/** A ρ function of the standardized residual u with its ψ = ρ′, ψ′ and IRLS weight ψ(u)/u. */
-export interface RhoFunction {
-  readonly estimator: Extract<Estimator, 'huber' | 'tukey'>;
-  readonly tuning: number;
-  /**
-   * ρ is quadratic on each set where ψ′ is constant (Huber): a Newton step after which no
-   * reading changed side of ±k landed exactly on the minimum.
-   */
-  readonly piecewiseQuadratic: boolean;
-  rho(u: number): number;
-  psi(u: number): number;
-  psiDerivative(u: number): number;
-  weight(u: number): number;
-  /**
-   * One IRLS sweep in a single loop (no per-row calls): for uᵢ = swᵢ·rᵢ·invScale writes vᵢ =
-   * swᵢ²·ψ(uᵢ)/uᵢ, hᵢ = swᵢ²·ψ′(uᵢ), sideᵢ = [ψ′(uᵢ) > 0] and the robust weight ψ(uᵢ)/uᵢ; returns
-   * Σρ(uᵢ) and adds Σψ(uᵢ)², Σψ′(uᵢ), Σψ′(uᵢ)² to state (for the covariance), with state.changed
-   * saying whether any side flipped. `sw` null: no prior weights (every swᵢ = 1).
-   */
-  sweep(r: Float64Array, sw: Float64Array | null, invScale: number, v: Float64Array, h: Float64Array, side: Uint8Array,
-    robustWeights: Float64Array, state: SweepState): number;
-}
-
-/** What a sweep reports beside Σρ (the sums are added to, changed is set). */
-export interface SweepState { changed: boolean; sumPsi2: number; sumD: number; sumD2: number }
+export type { RhoFunction, SweepState } from './rho-function.ts';
 
 /** Default relative tolerance on the coefficients (types.ts: 1e-12 for IRLS). */
 export const IRLS_TOLERANCE = 1e-12;
