@@ -20,7 +20,6 @@
 // n/SUM_BLOCK)·ε relative).
 import { factorLu, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
 import { nonFiniteRow } from './simplex-frame.ts';
-import type { ScaleCollector } from './simplex-residual-scale.ts';
 import type { LinearProblem } from './types.ts';
 
 export const SUM_BLOCK = 1024;
@@ -51,11 +50,10 @@ export interface FinalPass {
  * - branch-free on the residual's sign (s = 1 − 2·[ρ < 0]; `+(bool)` compiles to a set-on-
  *   condition, a ternary to a branch): the signs are random, and a branch on them mispredicts
  *   half the time, which costs ~8 ns a row, six times the pass itself;
- * - the MAD windows' below-counts the same way; only the rare pushes (values inside a window,
- *   zero residuals) branch;
+ * - only the rare zero residuals branch;
  * - no closures over the loop's variables (they would live in a heap context).
  */
-export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard: number, collector: ScaleCollector | null): FinalPass {
+export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard: number): FinalPass {
   const { n, p, X, y, weights } = problem;
   const residuals = new Float64Array(n);
   let zeroRows: Int32Array = new Int32Array(64);
@@ -65,15 +63,6 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
   const blockG = new Float64Array(p);
   const colSq = new Float64Array(p);
   let objective = 0;
-  const col = collector;
-  // Without a collector the windows are empty: lo = hi = −∞ counts nothing and keeps nothing.
-  const medLo = col ? col.medLo : -Infinity;
-  const medHi = col ? col.medHi : -Infinity;
-  const centre = col ? col.centre : 0;
-  const madLo = col ? col.madLo : -Infinity;
-  const madHi = col ? col.madHi : -Infinity;
-  let medBelow = 0;
-  let madBelow = 0;
   if (p === 2 && !weights) {
     // The degree model without weights, unrolled: the bulk of every large fit.
     const b0 = beta[0];
@@ -98,17 +87,6 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
         const sg = 1 - 2 * +(r < 0);
         g0 += sg * x0;
         g1 += sg * x1;
-        const belowMed = +(r <= medLo);
-        medBelow += belowMed;
-        const am = Math.abs(r - centre);
-        const belowMad = +(am <= madLo);
-        madBelow += belowMad;
-        // 1 exactly when r is inside (medLo, medHi) or am inside (madLo, madHi): rare.
-        const inside = +(r < medHi) - belowMed + (+(am < madHi) - belowMad);
-        if (inside > 0 && col) {
-          if (r > medLo && r < medHi) col.pushMedian(r);
-          if (am > madLo && am < madHi) col.pushMad(r);
-        }
         if (!(a > zeroGuard)) {
           // A zero residual (rare): its side is settled by `certify`, so take it back out.
           if (!(a === a)) throw nonFiniteRow(problem, i);
@@ -144,16 +122,6 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
         const rho = s * r;
         const a = Math.abs(rho);
         block += a;
-        const belowMed = +(rho <= medLo);
-        medBelow += belowMed;
-        const am = Math.abs(rho - centre);
-        const belowMad = +(am <= madLo);
-        madBelow += belowMad;
-        const inside = +(rho < medHi) - belowMed + (+(am < madHi) - belowMad);
-        if (inside > 0 && col) {
-          if (rho > medLo && rho < medHi) col.pushMedian(rho);
-          if (am > madLo && am < madHi) col.pushMad(rho);
-        }
         const sg = s * (1 - 2 * +(rho < 0));
         for (let j = 0; j < p; j++) {
           const v = s * X[o + j];
@@ -176,10 +144,6 @@ export function finalPass(problem: LinearProblem, beta: Float64Array, zeroGuard:
     }
   }
   for (let j = 0; j < p; j++) G[j] += comp[j];
-  if (col) {
-    col.medBelow = medBelow;
-    col.madBelow = madBelow;
-  }
   return { residuals, objective, G, colSq, zeroRows, zeroCount, zeroGuard, compensated: false };
 }
 

@@ -32,7 +32,9 @@ import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoeffic
 import { assertProblemShape, systematicSample, unsolved, vetWarmStart } from './simplex-problem.ts';
 import { designRank } from './simplex-rank.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
-import { madScaleInPlace, planScale, residualsWithScale, type ScaleCollector } from './simplex-residual-scale.ts';
+import { madScaleInPlace, madScaleOfResiduals } from './simplex-residual-scale.ts';
+import { defineCachedField } from './cached-field.ts';
+import { residualsOf } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
 /** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
@@ -237,7 +239,7 @@ function finishProven(
   res: DescentResult, proof: BandProof, how: string,
 ): FitResult {
   const { p } = problem;
-  const { residuals, scale } = residualsWithScale(problem, beta);
+  const residuals = residualsOf(problem, beta);
   // Pinned rows kept their sides: Σ sᵢρᵢ(β*) = Σ|ρᵢ(β_s)| − (Σ sᵢaᵢ)·(β* − β_s), linear in β*.
   let objective = screen.pinnedAbs;
   for (let j = 0; j < p; j++) objective -= screen.pinnedSum[j] * (beta[j] - betaScreen[j]);
@@ -248,19 +250,19 @@ function finishProven(
   }
   const notes = ctx.notes.length ? `; ${ctx.notes.join('; ')}` : '';
   const rows = Array.from(basis).join(', ');
-  return {
+  return withLazyScale(problem, {
     estimator: 'least-absolute',
     status: proof.ok ? 'ok' : 'not-converged',
     coefficients: beta,
     residuals,
     objective,
-    scale,
+    scale: NaN,
     iterations: ctx.iterations,
     converged: proof.ok,
     reason: proof.ok ? `exact: the vertex through rows ${rows} is optimal (${proof.reason}); ${how}${notes}`
       : `not proven optimal: ${proof.reason}; ${how}${notes}`,
     basis,
-  };
+  });
 }
 
 /** All rows to the descent (small n, or a fallback from screening). */
@@ -302,27 +304,16 @@ interface Candidate {
   basis: Int32Array;
   pass: FinalPass;
   cert: Certificate;
-  scale: number;
 }
 
 /** Full final pass + certificate at β with basis rows (raw indices). */
 function evaluate(ctx: Context, beta: Float64Array, basis: Int32Array, sample: Int32Array, side: (row: number) => number): Candidate {
   const { problem } = ctx;
-  const { n, p, X, y, weights } = problem;
-  const sampleRho = new Float64Array(sample.length);
-  for (let k = 0; k < sample.length; k++) {
-    const i = sample[k];
-    let f = 0;
-    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
-    sampleRho[k] = (weights ? Math.sqrt(weights[i]) : 1) * (y[i] - f);
-  }
   const magnitude = Math.max(rowMagnitude(problem, sample, beta), rowMagnitude(problem, basis, beta));
   const zeroGuard = ZERO_GUARD_FACTOR * ROW_ZERO_EPS * Number.EPSILON * magnitude;
-  const collector: ScaleCollector | null = planScale(sampleRho, sample.length, n);
-  const pass = finalPass(problem, beta, zeroGuard, collector);
+  const pass = finalPass(problem, beta, zeroGuard);
   const cert = certify(problem, beta, basis, pass, side);
-  const scale = (collector ? collector.finish(n) : null) ?? fullScale(problem, pass.residuals);
-  return { beta, basis, pass, cert, scale };
+  return { beta, basis, pass, cert };
 }
 
 function finish(ctx: Context, cand: Candidate, how: string): FitResult {
@@ -334,27 +325,29 @@ function finish(ctx: Context, cand: Candidate, how: string): FitResult {
   }
   const rows = Array.from(cand.basis).join(', ');
   const notes = ctx.notes.length ? `; ${ctx.notes.join('; ')}` : '';
-  return {
+  return withLazyScale(problem, {
     estimator: 'least-absolute',
     status: cert.ok ? 'ok' : 'not-converged',
     coefficients: cand.beta,
     residuals: pass.residuals,
     objective: pass.objective,
-    scale: cand.scale,
+    scale: NaN,
     iterations: ctx.iterations,
     converged: cert.ok,
     reason: cert.ok ? `exact: the vertex through rows ${rows} is optimal (${cert.reason}); ${how}${notes}`
       : `not proven optimal: ${cert.reason}; ${how}${notes}`,
     basis: cand.basis,
-  };
+  });
 }
 
-/** MAD scale of all whitened residuals by direct selection. */
-function fullScale(problem: LinearProblem, residuals: Float64Array): number {
-  const { n, weights } = problem;
-  const all = new Float64Array(n);
-  for (let i = 0; i < n; i++) all[i] = (weights ? Math.sqrt(weights[i]) : 1) * residuals[i];
-  return madScaleInPlace(all, n);
+/**
+ * The MAD scale of the whitened residuals, computed when first read (cached-field.ts): the exact
+ * L1 fit does not need it, and at n = 10⁶ counting its windows is a fifth of the fit. The
+ * M-estimators read it for their start, the report and diagnostics when they show it.
+ */
+function withLazyScale(problem: LinearProblem, result: FitResult): FitResult {
+  defineCachedField(result, 'scale', () => madScaleOfResiduals(result.residuals, problem.weights));
+  return result;
 }
 
 /** The side a row was given: its compact side when kept, else its side at the screening fit. */

@@ -4,17 +4,16 @@
 //
 // Why a window: two exact medians of 10⁶ values by selection cost ~10–20 ms in JavaScript, as
 // much as the whole fit. Instead (the sampling idea of Floyd & Rivest, CACM 18 (1975) 165):
-// before the final pass, a sample of residuals at the final coefficients gives windows that hold
-// the median of ρ and the median of |ρ − m̂| with overwhelming probability; the final pass counts
-// the values below each window and keeps only those inside; the exact order statistics are then
+// a systematic sample of the residuals gives windows that hold the median of ρ and the median of
+// |ρ − m̂| with overwhelming probability; one counting pass over the residuals counts the values
+// below each window and keeps only those inside; the exact order statistics are then
 // selected among the kept values. The answer is exact whenever the counts prove that the wanted
 // ranks fall inside the windows (checked, see `finish`); otherwise the caller's full residuals
-// are selected directly, so a missed window costs time, never accuracy.
+// are selected directly, so a missed window costs time, never accuracy. The exact fitters report
+// this scale as a field computed when first read (cached-field.ts).
 
 import { MAD_CONSISTENCY, madScaleOverwrite, selectKth } from './robust-scale.ts';
-import { residualsRange } from './problem.ts';
 import { scratchFloat64 } from './scratch.ts';
-import type { LinearProblem } from './types.ts';
 
 /** Up to this many rows the scale is selected directly from all residuals (cheap enough). */
 export const DIRECT_SCALE_MAX_ROWS = 16384;
@@ -38,20 +37,6 @@ export class ScaleCollector {
   ) {
     this.medBuf = new Float64Array(capacity);
     this.madBuf = new Float64Array(capacity);
-  }
-
-  /**
-   * The pass keeps the below-window counts itself (branch-free, see least-absolute-certificate.ts)
-   * and stores them in medBelow / madBelow; values inside a window are pushed here.
-   */
-  pushMedian(rho: number): void {
-    if (this.medCount === this.medBuf.length) this.medBuf = grow(this.medBuf);
-    this.medBuf[this.medCount++] = rho;
-  }
-
-  pushMad(rho: number): void {
-    if (this.madCount === this.madBuf.length) this.madBuf = grow(this.madBuf);
-    this.madBuf[this.madCount++] = rho;
   }
 
   /** Makes room for `more` values after the given counts in both buffers. */
@@ -163,45 +148,12 @@ export function madScaleOfResiduals(residuals: Float64Array, weights: Float64Arr
     }
     const col = planScale(sample, count, n);
     if (col) {
-      countWindows(residuals, weights, col, null);
+      countWindows(residuals, weights, col);
       const scale = col.finish(n);
       if (scale !== null) return scale;
     }
   }
   return selectedScale(residuals, weights);
-}
-
-/**
- * The raw residuals y − Xβ of a finished fit (a new array) with the MAD scale of their whitened
- * values, as `residualsOf` then `madScaleOfResiduals` would give them, in one chunked pass: the
- * windows are planned from sample residuals computed at β directly, and each chunk is counted
- * while it is still in cache. At n = 10⁶ this saves re-reading the 8 MB residual array.
- */
-export function residualsWithScale(problem: LinearProblem, beta: Float64Array): { residuals: Float64Array; scale: number } {
-  const { n, p, X, y, weights } = problem;
-  const residuals = new Float64Array(n);
-  if (n > DIRECT_SCALE_MAX_ROWS) {
-    const count = scaleSampleCount(n);
-    const sample = new Float64Array(count);
-    const stride = n / count;
-    for (let k = 0; k < count; k++) {
-      const i = Math.floor(k * stride);
-      let f = 0;
-      for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
-      sample[k] = (weights ? Math.sqrt(weights[i]) : 1) * (y[i] - f);
-    }
-    const col = planScale(sample, count, n);
-    if (col) {
-      countWindows(residuals, weights, col, { problem, beta });
-      const scale = col.finish(n);
-      if (scale !== null) return { residuals, scale };
-    } else {
-      residualsRange(problem, beta, 0, n, residuals);
-    }
-  } else {
-    residualsRange(problem, beta, 0, n, residuals);
-  }
-  return { residuals, scale: selectedScale(residuals, weights) };
 }
 
 /** A quarter of the rows at most: below that the windows would hold most of them anyway. */
@@ -222,18 +174,14 @@ function selectedScale(residuals: Float64Array, weights: Float64Array | undefine
  * The counting pass of `madScaleOfResiduals`, branch-free: every value is written at the end of
  * both buffers and the ends advance by the 0/1 window tests (a branch on them would mispredict
  * for the ~10 % of rows inside a window, at random). Room for a whole chunk is made before it.
- * With `compute`, each chunk's residuals at β are first written into `residuals` (then counted
- * while in cache).
  */
-function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector,
-  compute: { problem: LinearProblem; beta: Float64Array } | null): void {
+function countWindows(residuals: Float64Array, weights: Float64Array | undefined, col: ScaleCollector): void {
   const n = residuals.length;
   const counts = new Float64Array(4);
   counts[0] = col.medCount;
   counts[1] = col.madCount;
   for (let from = 0; from < n; from += COUNT_CHUNK) {
     const to = Math.min(n, from + COUNT_CHUNK);
-    if (compute) residualsRange(compute.problem, compute.beta, from, to - from, residuals.subarray(from, to));
     col.ensureRoom(counts[0], counts[1], to - from);
     if (weights) countChunkWeighted(residuals, weights, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
     else countChunk(residuals, col.medBuf, col.madBuf, col.medLo, col.medHi, col.centre, col.madLo, col.madHi, from, to, counts);
