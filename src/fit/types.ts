@@ -29,7 +29,7 @@ export interface FitResult {
   residuals: Float64Array;
   /** The minimised objective on the whitened problem (Σr², Σ|r|, max|r|, Σρ(r/s)). */
   objective: number;
-  /** Scale of the whitened residuals: σ₀ for least squares, the MAD-based scale for the robust ones. */
+  /** Scale of the whitened residuals: σ₀ for least squares, the MAD-based scale for the robust ones (for L1, computed when first read). */
   scale: number;
   iterations: number;
   converged: boolean;
