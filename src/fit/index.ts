@@ -14,3 +14,4 @@ export { fitTukey, TUKEY_C, tukeyRho } from './tukey.ts';
 export { fitLeastAbsolute } from './least-absolute.ts';
 export { fitMinimax } from './minimax.ts';
 export { fitLinear } from './fit-linear.ts';
+export { createFitSession, SUMS_REBUILD_GROWTH, type FitSession, type SessionRow } from './fit-session.ts';
