@@ -9,15 +9,20 @@
 //   taken about a base β₀ (G = Σ w zzᵀ, b = Σ w z r₀, S = Σ w r₀², r₀ = y − Xβ₀); a new row adds
 //   its terms, O(p²) per row. See `NormalSums` for why this is as accurate as the cold route.
 // - minimax: a new row with √w|r| within the last exact level h leaves β optimal (below).
-// - least absolute deviations, Huber, Tukey: the plain fitter with warmStart = the previous
-//   result. An exact M-estimate (and its MAD scale from the L1 start) after one more reading
-//   needs at least one pass over the data; the L1 vertex test is not done here yet.
+// - least absolute deviations: the last vertex is tested against the new rows by the dual
+//   condition of least-absolute-certificate.ts, from a side sum g kept over the old rows (below);
+//   O(p) per new row and one p×p solve. If the vertex fails, the plain fitter warm-started from it.
+// - Huber, Tukey: the plain fitter with warmStart = the previous result. An exact M-estimate (and
+//   its MAD scale from the L1 start) after one more reading needs at least one pass over the data:
+//   every row's ψ weight moves with the scale and β, so no kept sum stays exact.
 // Results of the session's own paths compute their n-sized outputs (residuals, the minimax MAD
 // scale) when first read (cached-field.ts), from the rows the fit saw.
 import { InputError } from '../errors.ts';
 import { defineCachedField } from './cached-field.ts';
 import { fitHuber } from './huber.ts';
 import { fitLeastAbsolute } from './least-absolute.ts';
+import { GAP_TOL, ROW_ZERO_EPS } from './least-absolute-certificate.ts';
+import { factorLu, inverseFromLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
 import { fitLeastSquares, NORMAL_MIN_PIVOT } from './least-squares.ts';
 import { fitMinimax, ROUNDING_ULPS, VIOLATION_REL } from './minimax.ts';
 import { interceptColumn, residualsOf, residualsRange, validateProblem } from './problem.ts';
@@ -83,6 +88,30 @@ interface Kept {
   n: number;
   /** Minimax: the level of the last exact solve, the reference for the new-row test. */
   level?: number;
+  /** Least absolute deviations: the vertex's dual state over the result's rows. */
+  vertex?: L1Vertex;
+}
+
+/**
+ * The L1 vertex test's state (least-absolute-certificate.ts): with aᵢ = √wᵢxᵢ, sᵢ = sign(rᵢ) and
+ * B the basis rows, the vertex is optimal iff z = A_B⁻ᵀg, g = Σ_{i∉B} sᵢaᵢ, has max|z| ≤ 1. A new
+ * row only adds its term to g; the basis, hence A_B's factors, stays. g is summed with every term
+ * through TwoSum (error ≤ ε|gⱼ| + γ²ₙΣ|aᵢⱼ|, the certificate's compensated bound), so a chain of
+ * appended rows never accumulates rounding. A row whose residual is zero to rounding (as the
+ * certificate decides it) may take any side in [−1, 1]; it is given 0 here. Any choice in [−1, 1]
+ * is a valid subgradient, so a passing test proves optimality; a failing one only costs the
+ * plain refit.
+ */
+interface L1Vertex {
+  beta: Float64Array;
+  basis: Int32Array;
+  lu: LuFactors;
+  /** max_k Σ_j |A_B⁻¹[j, k]|: carries g's error to z. */
+  invNorm: number;
+  g: Float64Array;
+  comp: Float64Array;
+  /** Σ|aᵢⱼ| over the summed rows, for the rounding bound. */
+  absSum: Float64Array;
 }
 
 interface Checkpoint {
@@ -173,6 +202,7 @@ class Session implements FitSession {
     let kept: Kept;
     if (estimator === 'least-squares') kept = { result: this.leastSquares(problem), n: problem.n };
     else if (estimator === 'minimax') kept = this.minimax(problem, prev, options);
+    else if (estimator === 'least-absolute') kept = leastAbsolute(problem, prev, options);
     else kept = { result: warmFit(estimator, problem, prev?.result, options), n: problem.n };
     this.kept.set(estimator, kept);
     return kept.result;
@@ -266,6 +296,106 @@ function checkRow(row: SessionRow, k: number, p: number): void {
   if (weight !== undefined && (typeof weight !== 'number' || !Number.isFinite(weight) || weight <= 0)) {
     throw new InputError(`rows[${k}].weight`, weight, 'weights are 1/σ² and must be finite and > 0');
   }
+}
+
+/** L1: the kept vertex when the new rows leave it optimal, else the warm plain fitter (and a new vertex state from its answer). */
+function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: FitOptions): Kept {
+  const { n } = problem;
+  const v = prev?.vertex;
+  if (prev && v && prev.n <= n && !options.warmStart) {
+    const next = extendVertex(v, problem, prev.n);
+    const test = dualTest(next, n);
+    if (test.ok) return { result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next };
+  }
+  const result = warmFit('least-absolute', problem, prev?.result, options);
+  const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis) : undefined;
+  return vertex ? { result, n, vertex } : { result, n };
+}
+
+/** Zero tolerance of row i at β: the certificate's rowTol (ROW_ZERO_EPS·ε·√wᵢ(|yᵢ| + Σ|xᵢⱼβⱼ|)). */
+function rowTolerance(problem: LinearProblem, i: number, beta: Float64Array, sw: number): number {
+  const { p, X, y } = problem;
+  let m = Math.abs(y[i]);
+  for (let j = 0; j < p; j++) m += Math.abs(X[i * p + j] * beta[j]);
+  return ROW_ZERO_EPS * Number.EPSILON * sw * m;
+}
+
+/** Adds the side terms of rows from … n−1 (none of them basis rows) to g in place. */
+function addSideTerms(v: L1Vertex, problem: LinearProblem, from: number, skip: ReadonlySet<number> | null): void {
+  const { n, p, X, y, weights } = problem;
+  const { beta, g, comp, absSum } = v;
+  for (let i = from; i < n; i++) {
+    if (skip?.has(i)) continue;
+    const sw = weights ? Math.sqrt(weights[i]) : 1;
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    const rho = sw * (y[i] - f);
+    for (let j = 0; j < p; j++) absSum[j] += Math.abs(sw * X[i * p + j]);
+    if (!(Math.abs(rho) > rowTolerance(problem, i, beta, sw))) continue;
+    const side = rho > 0 ? sw : -sw;
+    for (let j = 0; j < p; j++) {
+      // TwoSum (Knuth): g + t = u + e exactly.
+      const t = side * X[i * p + j];
+      const u = g[j] + t;
+      const w = u - g[j];
+      comp[j] += g[j] - (u - w) + (t - w);
+      g[j] = u;
+    }
+  }
+}
+
+/** The full pass of the slow path: g over every non-basis row at the plain fitter's vertex. */
+function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: Int32Array): L1Vertex | undefined {
+  const { p, X, weights } = problem;
+  if (basis.length !== p) return undefined;
+  const AB = new Float64Array(p * p);
+  for (let k = 0; k < p; k++) {
+    const i = basis[k];
+    const sw = weights ? Math.sqrt(weights[i]) : 1;
+    for (let j = 0; j < p; j++) AB[k * p + j] = sw * X[i * p + j];
+  }
+  const lu = factorLu(AB, p);
+  if (lu.singular) return undefined;
+  const inv = inverseFromLu(lu);
+  let invNorm = 0;
+  for (let k = 0; k < p; k++) {
+    let t = 0;
+    for (let j = 0; j < p; j++) t += Math.abs(inv[j * p + k]);
+    invNorm = Math.max(invNorm, t);
+  }
+  const v: L1Vertex = {
+    beta: Float64Array.from(coefficients), basis: Int32Array.from(basis), lu, invNorm,
+    g: new Float64Array(p), comp: new Float64Array(p), absSum: new Float64Array(p),
+  };
+  addSideTerms(v, problem, 0, new Set(basis));
+  return v;
+}
+
+/** A copy of the state with rows from … n−1 added (the kept state may belong to a checkpoint). */
+function extendVertex(v: L1Vertex, problem: LinearProblem, from: number): L1Vertex {
+  const next: L1Vertex = { ...v, g: Float64Array.from(v.g), comp: Float64Array.from(v.comp), absSum: Float64Array.from(v.absSum) };
+  addSideTerms(next, problem, from, null);
+  return next;
+}
+
+/** γ_k = kε/(1 − kε) (Higham, "Accuracy and Stability of Numerical Algorithms", §3.1). */
+function gamma(k: number): number {
+  return (k * Number.EPSILON) / (1 - k * Number.EPSILON);
+}
+
+/** The certificate's acceptance rule: max|z| plus its rounding bound within 1 + GAP_TOL. */
+function dualTest(v: L1Vertex, n: number): { ok: boolean; maxDual: number } {
+  const { g, comp, absSum, lu, invNorm } = v;
+  const p = g.length;
+  const G = new Float64Array(p);
+  for (let j = 0; j < p; j++) G[j] = g[j] + comp[j];
+  const z = solveLuTransposed(lu, G);
+  let maxDual = 0;
+  for (let k = 0; k < p; k++) maxDual = Math.max(maxDual, Math.abs(z[k]));
+  let gErr = 0;
+  for (let j = 0; j < p; j++) gErr = Math.max(gErr, Number.EPSILON * Math.abs(G[j]) + gamma(n) ** 2 * absSum[j]);
+  const zErr = invNorm * gErr + 2 * p * Number.EPSILON * maxDual;
+  return { ok: maxDual + zErr <= 1 + GAP_TOL, maxDual };
 }
 
 /** The plain fitter, warm-started from this estimator's previous session result (a start only). */
@@ -387,6 +517,35 @@ function minimaxKept(problem: LinearProblem, prev: FitResult, worst: number, add
     reason: `exact: the previous optimum (reference rows ${Array.from(basis).join(', ')}) holds; the ${added} row${added === 1 ? '' : 's'} ` +
       `added since lie within its level, so max |r| over all ${problem.n} rows is ${worst.toPrecision(12)} (fit session)`,
     basis,
+  };
+  defineCachedField(result, 'residuals', () => residualsOf(problem, beta));
+  defineCachedField(result, 'scale', () => madScaleOfResiduals(result.residuals, problem.weights));
+  return result;
+}
+
+/** The kept vertex as the answer on all rows: objective = previous + the new rows' Σ√w|r|; residuals and scale when first read. */
+function vertexKept(problem: LinearProblem, prev: FitResult, v: L1Vertex, maxDual: number, added: number): FitResult {
+  const { n, p, X, y, weights } = problem;
+  const beta = Float64Array.from(v.beta);
+  let extra = 0;
+  for (let i = n - added; i < n; i++) {
+    let f = 0;
+    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    extra += (weights ? Math.sqrt(weights[i]) : 1) * Math.abs(y[i] - f);
+  }
+  const rows = Array.from(v.basis).join(', ');
+  const result: FitResult = {
+    estimator: 'least-absolute',
+    status: 'ok',
+    coefficients: beta,
+    residuals: new Float64Array(0),
+    objective: prev.objective + extra,
+    scale: NaN,
+    iterations: 0,
+    converged: true,
+    reason: `exact: the vertex through rows ${rows} is optimal (dual condition max|z| = ${maxDual.toPrecision(6)} ≤ 1 over all ${n} rows); ` +
+      `the fit session kept it: the ${added} row${added === 1 ? '' : 's'} added since only extend its side sum`,
+    basis: Int32Array.from(v.basis),
   };
   defineCachedField(result, 'residuals', () => residualsOf(problem, beta));
   defineCachedField(result, 'scale', () => madScaleOfResiduals(result.residuals, problem.weights));

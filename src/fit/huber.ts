@@ -4,7 +4,6 @@
 // Convex at a fixed scale, so the estimate does not depend on the start, only on the scale.
 import { fitLeastAbsolute } from './least-absolute.ts';
 import { mEstimate, tuningOrDefault, type RhoFunction } from './irls.ts';
-import { validateProblem } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
 /** Huber's k for 95 % efficiency at the normal (Holland & Welsch 1977 — from memory). */
@@ -75,6 +74,5 @@ export function huberRho(k: number): RhoFunction {
  * whitened residuals held fixed (options.scale overrides). See irls.ts for the start and scale rules.
  */
 export function fitHuber(problem: LinearProblem, options: FitOptions = {}): FitResult {
-  validateProblem(problem);
   return mEstimate(problem, huberRho(tuningOrDefault(options, HUBER_K)), options, (pr, o) => fitLeastAbsolute(pr, o));
 }

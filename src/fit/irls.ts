@@ -13,7 +13,8 @@
 // together); buffers are allocated once per fit and an iteration allocates nothing n-sized.
 import { InputError } from '../errors.ts';
 import { defineCachedField } from './cached-field.ts';
-import { interceptColumn, noSolution, residualsOf, residualsRange } from './problem.ts';
+import { interceptColumn, noSolution, residualsOf, residualsRange, validateProblem } from './problem.ts';
+import { assertProblemShape } from './simplex-problem.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
 import { fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
@@ -157,7 +158,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   const chunk = new Chunk(problem);
   const delta = new Float64Array(p);
   const qdiag = new Float64Array(p);
-  const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, change: Infinity, tol };
+  const stop: Stop = { iterations: 0, newtonSteps: 0, rejected: 0, converged: false, atRounding: false, exact: false, stepNotTaken: false, change: Infinity, tol };
   // Newton is tried once the iterate is close (a warm start is taken to be). Huber's ρ is convex
   // and piecewise quadratic, and its L1 start has nearly the final partition: every step is a
   // Newton step (the active-set iteration; an uphill one is undone as below), which saved one or
@@ -235,8 +236,14 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
     stop.change = change;
     lastChange = change;
     if (change <= tol || noise) {
+      // Converged. The iterate returned is the one just evaluated (β before this step), whose
+      // residuals, weights and Σρ the pass produced: a pass to evaluate β + δ would cost a tenth
+      // of a second at n = 10⁶ and move β by ≤ tol relative (or only by rounding noise).
+      beta.set(previous);
+      outputsCurrent = true;
       stop.converged = true;
       stop.atRounding = change > tol;
+      stop.stepNotTaken = true;
       break;
     }
   }
@@ -317,6 +324,8 @@ interface Stop {
   atRounding: boolean;
   /** A Newton step on a piecewise quadratic ρ that kept every reading's side: exact. */
   exact: boolean;
+  /** Converged on a step ≤ tol (or at rounding) that was not applied: the evaluated iterate is returned. */
+  stepNotTaken: boolean;
   change: number;
   tol: number;
 }
@@ -328,14 +337,15 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
   const s = start.scale;
   const { residuals, robustWeights, objective, sumPsi2, sumD, sumD2 } = out;
   const steps = newtonSteps > 0 ? ` (${newtonSteps} of them Newton steps${rejected ? `, ${rejected} rejected` : ''})` : '';
+  const kept = stop.stepNotTaken ? '; the coefficients are the iterate before that last step (the one whose residuals were evaluated)' : '';
   const what = `${rho.estimator} (tuning ${rho.tuning}) by IRLS from ${start.from}, scale ${s.toPrecision(6)} held fixed`;
   const reason = !converged
     ? `${what}: did not converge in ${iterations} iterations (last relative change ${change.toExponential(1)} > ${tol.toExponential(0)})`
     : exact
       ? `${what}: exact after ${iterations} iterations${steps} — the last Newton step left every reading on its side of ±${rho.tuning}`
     : atRounding
-      ? `${what}: the correction reached the rounding level of the readings (relative change ${change.toExponential(1)}) after ${iterations} iterations${steps}`
-      : `${what}: relative change ${change.toExponential(1)} ≤ ${tol.toExponential(0)} after ${iterations} iterations${steps}`;
+      ? `${what}: the correction reached the rounding level of the readings (relative change ${change.toExponential(1)}) after ${iterations} iterations${steps}${kept}`
+      : `${what}: relative change ${change.toExponential(1)} ≤ ${tol.toExponential(0)} after ${iterations} iterations${steps}${kept}`;
   const result: FitResult = {
     estimator: rho.estimator,
     status: converged ? 'ok' : 'not-converged',
@@ -394,6 +404,7 @@ export type RobustStart = (problem: LinearProblem, options?: FitOptions) => FitR
  * 4. a warm start with coefficients only: the MAD of its own whitened residuals.
  */
 export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: FitOptions, robustStart: RobustStart): FitResult {
+  assertProblemShape(problem);
   const { n, p } = problem;
   if (n < p) return noSolution(rho.estimator, problem, 'too-few-rows', `${n} rows for ${p} parameters`);
   if (options.scale !== undefined && (!Number.isFinite(options.scale) || options.scale <= 0)) {
@@ -438,6 +449,8 @@ export function mEstimate(problem: LinearProblem, rho: RhoFunction, options: Fit
     // simplex-residual-scale.ts without two full selections).
     if (scale === undefined && Number.isFinite(l1.scale) && l1.scale >= 0) scale = l1.scale;
   }
+  // Without the L1 fit, which checks every value it reads (simplex-problem.ts), a full scan does.
+  if (!l1) validateProblem(problem);
   if (scale === undefined && coefficients && !l1 && warm?.scale !== undefined && Number.isFinite(warm.scale) && warm.scale > 0) scale = warm.scale;
   from += warmNote;
   if (scale === undefined) scale = startScale(problem, coefficients);

@@ -5,7 +5,6 @@
 // robust start, which is why the start is the exact L1 fit and not least squares.
 import { fitLeastAbsolute } from './least-absolute.ts';
 import { mEstimate, tuningOrDefault, type RhoFunction } from './irls.ts';
-import { validateProblem } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 
 /** Tukey's c for 95 % efficiency at the normal (Holland & Welsch 1977 — from memory). */
@@ -89,6 +88,5 @@ export function tukeyRho(c: number): RhoFunction {
  * start's whitened residuals held fixed (options.scale overrides). See irls.ts.
  */
 export function fitTukey(problem: LinearProblem, options: FitOptions = {}): FitResult {
-  validateProblem(problem);
   return mEstimate(problem, tukeyRho(tuningOrDefault(options, TUKEY_C)), options, (pr, o) => fitLeastAbsolute(pr, o));
 }
