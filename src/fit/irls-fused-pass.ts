@@ -10,9 +10,12 @@
 // Huber's "did any reading change side of ±k" is read from the previous pass's robust weight
 // (exactly 1 inside, k/|u| < 1 outside), so no side array is kept; for Tukey the flag is not
 // tracked (irls.ts uses it only for piecewise-quadratic ρ) and is reported as true.
+import type { HuberBand } from './huber-active-set.ts';
 import type { RhoFunction } from './rho-function.ts';
 import type { LinearProblem } from './types.ts';
 import type { NormalWorkspace } from './weighted-normal.ts';
+
+const EMPTY = new Float64Array(0);
 
 /** What a fused pass adds up (the normal equations go into the workspace). */
 export interface FusedSums {
@@ -33,10 +36,11 @@ export function fusedPassApplies(problem: LinearProblem, rho: RhoFunction): bool
  * `residualsReady`), and into `ws` the normal equations G = Σ gᵢzᵢzᵢᵀ, b = Σ vᵢrᵢzᵢ with vᵢ the
  * IRLS weight ψ(u)/u and gᵢ = ψ′(uᵢ) for a Newton step (`newton`), vᵢ otherwise; z as in
  * weighted-normal.ts. For p = 2 the third column is carried as zeros (z₂ = 0 adds nothing), one
- * loop for both degree models.
+ * loop for both degree models. With a Huber `band` the pass also lists the readings with
+ * ||u| − k| < band.margin and each column's range (huber-active-set.ts).
  */
 export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float64Array, scale: number, residuals: Float64Array,
-  robustWeights: Float64Array, residualsReady: boolean, ws: NormalWorkspace, newton: boolean, out: FusedSums): void {
+  robustWeights: Float64Array, residualsReady: boolean, ws: NormalWorkspace, newton: boolean, out: FusedSums, band: HuberBand | null = null): void {
   const { n, p, X, y } = problem;
   const huber = rho.estimator === 'huber';
   const k = rho.tuning;
@@ -53,6 +57,14 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
   let g00 = 0, g01 = 0, g02 = 0, g11 = 0, g12 = 0, g22 = 0, b0 = 0, b1 = 0, b2 = 0;
   let objective = 0, sumPsi2 = 0, sumD = 0, sumD2 = 0;
   let changed = !huber;
+  // The band's listing (Huber only): locals, no call in the loop (a call there made the whole
+  // pass three times slower); margin −1 lists nothing. A full buffer stops the listing and marks
+  // the band overflowed (the active set is then not tried).
+  const margin = band && huber ? band.margin : -1;
+  const bx = band ? band.x : EMPTY, br = band ? band.r : EMPTY;
+  const capacity = br.length;
+  let listed = 0;
+  let lo0 = Infinity, lo1 = Infinity, lo2 = Infinity, hi0 = -Infinity, hi1 = -Infinity, hi2 = -Infinity;
   for (let i = 0, o = 0; i < n; i++, o += p) {
     const x0 = X[o], x1 = X[o + 1], x2 = three ? X[o + 2] : 0;
     const r = residualsReady ? residuals[i] : y[i] - (three ? x0 * c0 + x1 * c1 + x2 * c2 : x0 * c0 + x1 * c1);
@@ -76,6 +88,19 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
       }
       // Side of ±k before (weight exactly 1 inside) and now.
       if ((robustWeights[i] === 1) !== (h === 1)) changed = true;
+      const gap = a - k;
+      if (gap < margin && gap > -margin) {
+        if (listed < capacity) {
+          bx[listed * p] = x0;
+          bx[listed * p + 1] = x1;
+          if (three) bx[listed * p + 2] = x2;
+          br[listed] = r;
+        }
+        listed++;
+      }
+      lo0 = Math.min(lo0, x0); hi0 = Math.max(hi0, x0);
+      lo1 = Math.min(lo1, x1); hi1 = Math.max(hi1, x1);
+      lo2 = Math.min(lo2, x2); hi2 = Math.max(hi2, x2);
     } else if (a <= k) {
       const q = u * u * invC2;
       const t = 1 - q;
@@ -104,6 +129,15 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
   gram[0] = g00; gram[1] = g01; gram[p + 1] = g11; rhs[0] = b0; rhs[1] = b1;
   if (three) {
     gram[2] = g02; gram[5] = g12; gram[8] = g22; rhs[2] = b2;
+  }
+  if (band && huber) {
+    band.count = Math.min(listed, capacity);
+    band.overflowed = listed > capacity;
+    band.colMin[0] = lo0; band.colMax[0] = hi0;
+    band.colMin[1] = lo1; band.colMax[1] = hi1;
+    if (three) {
+      band.colMin[2] = lo2; band.colMax[2] = hi2;
+    }
   }
   out.objective = objective;
   out.changed = changed;

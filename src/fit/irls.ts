@@ -18,6 +18,7 @@ import { assertProblemShape } from './simplex-problem.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
 import { fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
+import { createHuberBand, HUBER_BAND_MIN_ROWS, settleHuberPartition, type HuberBand, type SettledPartition } from './huber-active-set.ts';
 import type { RhoFunction, SweepState } from './rho-function.ts';
 import { scratchFloat64 } from './scratch.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
@@ -171,15 +172,40 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   let outputsCurrent = false;
   // The first pass at the L1 start can use the L1 fit's residuals (the same formula, bit for bit).
   let residualsReady = lent.residualsAtStart === true && out.residuals === lent.residuals;
+  // Huber on the fused path: the first pass lists the readings near ±k for the active-set finish.
+  let band: HuberBand | null = fused && rho.piecewiseQuadratic && n >= HUBER_BAND_MIN_ROWS ? createHuberBand(n, p) : null;
   while (stop.iterations < maxIterations) {
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
     // equations of the step to take (IRLS, or Newton when one is due).
     const planNewton = newtonAllowed && (lastChange < NEWTON_SWITCH || rho.piecewiseQuadratic);
-    if (fused) fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, residualsReady, planNewton ? wsNewton : ws, planNewton, out);
+    const listing = planNewton ? band : null;
+    if (fused) fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, residualsReady, planNewton ? wsNewton : ws, planNewton, out, listing);
     else chunk.sweep(rho, beta, s, out, planNewton ? null : ws, planNewton ? wsNewton : null, residualsReady);
     residualsReady = false;
     outputsCurrent = true;
     const objective = out.objective;
+    if (listing) {
+      band = null;
+      const settled = settleHuberPartition(rho.tuning, s, wsNewton, listing, out.sumD, IRLS_MIN_PIVOT);
+      if (settled) {
+        for (let j = 0; j < p; j++) beta[j] += settled.delta[j];
+        fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, false, ws, false, out);
+        stop.iterations++;
+        stop.newtonSteps++;
+        // The pass at β counts the readings inside ±k: it must be the settled partition's count
+        // (a mismatch, from rounding at ±k, continues the plain iteration from this β).
+        if (out.sumD === settled.inside) {
+          stop.converged = true;
+          stop.exact = true;
+          stop.settled = settled;
+          break;
+        }
+        lastChange = 0;
+        lastWasNewton = false;
+        objectiveBefore = Infinity;
+        continue;
+      }
+    }
     if (lastWasNewton && rho.piecewiseQuadratic && !out.changed) {
       // Exact: the step solved the quadratic that holds on this partition, and it still holds.
       stop.converged = true;
@@ -326,6 +352,8 @@ interface Stop {
   exact: boolean;
   /** Converged on a step ≤ tol (or at rounding) that was not applied: the evaluated iterate is returned. */
   stepNotTaken: boolean;
+  /** Huber's active-set finish after the first pass (huber-active-set.ts), when it proved the partition. */
+  settled?: SettledPartition;
   change: number;
   tol: number;
 }
@@ -341,6 +369,10 @@ function finish(problem: LinearProblem, rho: RhoFunction, start: IrlsStart, beta
   const what = `${rho.estimator} (tuning ${rho.tuning}) by IRLS from ${start.from}, scale ${s.toPrecision(6)} held fixed`;
   const reason = !converged
     ? `${what}: did not converge in ${iterations} iterations (last relative change ${change.toExponential(1)} > ${tol.toExponential(0)})`
+    : stop.settled
+      ? `${what}: exact — one Newton pass, then the sides of the ${stop.settled.listed} readings within ±${stop.settled.margin.toPrecision(2)} of ±${rho.tuning} ` +
+        `settled by ${stop.settled.resolves} re-solves (${stop.settled.moved} moved); every other reading provably kept its side (|Δu| ≤ ` +
+        `${stop.settled.bound.toExponential(1)} < ${stop.settled.margin.toPrecision(2)})`
     : exact
       ? `${what}: exact after ${iterations} iterations${steps} — the last Newton step left every reading on its side of ±${rho.tuning}`
     : atRounding
