@@ -8,10 +8,14 @@
 // 3. memory: the first fit's peak RSS (kernel high-water mark) above idle and above loaded;
 // 4. time: the shared protocol (bench/harness/timing.ts): warm-up, then batched repeats;
 // 5. floor: one plain pass Σ|yᵢ − xᵢᵀβ| for the true β, timed the same way in the same process;
-// 6. warm refit (optional): fit the first n − 1 rows, add the last reading, refit with the previous
-//    result as warmStart, and time it against the cold fit of the same n rows.
+// 6. warm refit (optional), through the fit session (src/fit/fit-session.ts): for C = 9 cases
+//    c = 0…8 the campaign is the first N = n − 9 + c + 1 rows; a session is fitted on its first
+//    N − 1 rows and checkpoint()ed; the timed call is rollback(), append the row N − 1, fit. The
+//    rollback only resets counts and small kept states (timed once on its own: it must not copy
+//    rows). Each case's answer is compared with the plain cold fitter on its N rows; warmSeconds is
+//    the median over cases, coldSeconds the plain cold fit of all n rows.
 // Prints one JSON line (OursRun) on stdout.
-import type { Estimator, FitOptions, FitResult, LinearProblem } from '../src/fit/types.ts';
+import type { Estimator, FitResult, LinearProblem } from '../src/fit/types.ts';
 import { ESTIMATORS } from '../src/fit/types.ts';
 import { designMatrix } from './generate.ts';
 import { numberArg, parseKeyValueArgs } from './harness/cli-args.ts';
@@ -19,7 +23,10 @@ import { readDataset, type DatasetHeader } from './harness/dataset-file.ts';
 import { onePassFloor } from './harness/floor-pass.ts';
 import { loadEstimators, type EstimatorFn } from './harness/load-estimators.ts';
 import { collectGarbage, PeakProbe, snapshot } from './harness/memory-probe.ts';
-import { timeCall, type TimingOptions, type TimingSummary } from './harness/timing.ts';
+import { median, timeCall, type TimingOptions, type TimingSummary } from './harness/timing.ts';
+import { compareCoefficients, objectiveGap, OBJECTIVE_REL_TOL, scoreObjective } from './harness/exactness.ts';
+import { existsSync } from 'node:fs';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 export interface FitSummary {
   status: string;
@@ -57,12 +64,51 @@ export interface OursRun {
   warmRefit?: {
     previousN: number;
     cold: TimingSummary;
+    /** The median case's timing. */
     warm: TimingSummary;
     coldResult: FitSummary;
+    /** The median case's answer. */
     warmResult: FitSummary;
+    cases: WarmCase[];
+    /** One rollback() on its own (the first case's session). */
+    rollback: TimingSummary;
   };
   warmRefitError?: string;
 }
+
+/** One warm-refit case: the campaign of the first n rows, refitted by its session after its last reading. */
+export interface WarmCase {
+  n: number;
+  warmSeconds: number;
+  iterations: number;
+  /** The session's answer equals the plain cold fitter's on the same n rows (objective 1e-9 for L1/L∞, coefficients 1e-8 otherwise). */
+  sameResult: boolean;
+  relativeDifference: number;
+  reason: string;
+}
+
+/** Cases of the warm-refit measurement (c = 0 … WARM_CASES − 1). */
+export const WARM_CASES = 9;
+
+interface BenchSession {
+  append(rows: readonly { x: ArrayLike<number>; y: number }[]): void;
+  fit(estimator: Estimator): FitResult;
+  checkpoint(): void;
+  rollback(): void;
+}
+type SessionFactory = (problem: LinearProblem) => BenchSession;
+
+/** createFitSession from the same module the estimators come from (ARCFIELD_BENCH_FIT_MODULE or src/fit/index.ts). */
+async function loadSessionFactory(): Promise<SessionFactory | string> {
+  const override = process.env.ARCFIELD_BENCH_FIT_MODULE;
+  const url = override ? pathToFileURL(override) : new URL('../src/fit/index.ts', import.meta.url);
+  if (!existsSync(fileURLToPath(url))) return `no fit module at ${fileURLToPath(url)}`;
+  const mod = (await import(url.href)) as Record<string, unknown>;
+  const fn = mod.createFitSession;
+  return typeof fn === 'function' ? (fn as SessionFactory) : 'the fit module exports no createFitSession';
+}
+
+const OBJECTIVE_KIND: Partial<Record<Estimator, 'l1' | 'linf'>> = { 'least-absolute': 'l1', minimax: 'linf' };
 
 function summarize(r: FitResult): FitSummary {
   return {
@@ -83,13 +129,61 @@ function loadProblem(path: string): { header: DatasetHeader; problem: LinearProb
   return { header, problem: { n: header.n, p: header.p, X: designMatrix(x, header.p), y } };
 }
 
-/** The first n − 1 rows, as views (no copy): the campaign before its newest reading. */
-function withoutLastRow(problem: LinearProblem): LinearProblem {
-  const n = problem.n - 1;
+/** The first n rows, as views (no copy). */
+function head(problem: LinearProblem, n: number): LinearProblem {
   return { n, p: problem.p, X: problem.X.subarray(0, n * problem.p), y: problem.y.subarray(0, n) };
 }
 
-function runOne(fit: EstimatorFn, estimator: Estimator, path: string, timing: TimingOptions, warmRefit: boolean): OursRun {
+/** The session's answer against the plain cold fitter's on the same rows, scored as the bench scores exactness. */
+function compareWarm(estimator: Estimator, rows: LinearProblem, warm: FitResult, cold: FitResult, noiseSd: number): { same: boolean; diff: number } {
+  const kind = OBJECTIVE_KIND[estimator];
+  if (kind) {
+    const diff = objectiveGap(scoreObjective(kind, rows.X, rows.y, rows.p, warm.coefficients), scoreObjective(kind, rows.X, rows.y, rows.p, cold.coefficients));
+    return { same: warm.status === cold.status && Math.abs(diff) <= OBJECTIVE_REL_TOL, diff };
+  }
+  const c = compareCoefficients(warm.coefficients, cold.coefficients, rows.X, rows.p, noiseSd);
+  return { same: warm.status === cold.status && c.match, diff: c.scaledDifference };
+}
+
+function warmRefitRun(fit: EstimatorFn, estimator: Estimator, problem: LinearProblem, noiseSd: number, timing: TimingOptions,
+  create: SessionFactory, first: FitResult): NonNullable<OursRun['warmRefit']> {
+  const { n, p } = problem;
+  let coldLast = first;
+  const cold = timeCall(() => fit(problem), timing, (r) => { coldLast = r; });
+  const cases: WarmCase[] = [];
+  const timings: TimingSummary[] = [];
+  const answers: FitResult[] = [];
+  let rollback: TimingSummary | null = null;
+  for (let c = 0; c < WARM_CASES; c++) {
+    const N = n - WARM_CASES + c + 1;
+    const session = create(head(problem, N - 1));
+    session.fit(estimator);
+    session.checkpoint();
+    const row = [{ x: problem.X.subarray((N - 1) * p, N * p), y: problem.y[N - 1] }];
+    if (!rollback) rollback = timeCall(() => session.rollback(), timing);
+    let last: FitResult | null = null;
+    const t = timeCall(() => {
+      session.rollback();
+      session.append(row);
+      return session.fit(estimator);
+    }, timing, (r) => { last = r; });
+    const warm = last ?? session.fit(estimator);
+    const rows = head(problem, N);
+    const { same, diff } = compareWarm(estimator, rows, warm, fit(rows), noiseSd);
+    cases.push({ n: N, warmSeconds: t.medianSeconds, iterations: warm.iterations, sameResult: same, relativeDifference: diff, reason: warm.reason });
+    timings.push(t);
+    answers.push(warm);
+  }
+  const mid = median(cases.map((k) => k.warmSeconds));
+  let at = 0;
+  for (let k = 1; k < cases.length; k++) if (Math.abs(cases[k].warmSeconds - mid) < Math.abs(cases[at].warmSeconds - mid)) at = k;
+  return {
+    previousN: n - 1, cold, warm: { ...timings[at], medianSeconds: mid }, coldResult: summarize(coldLast), warmResult: summarize(answers[at]),
+    cases, rollback: rollback ?? timeCall(() => 0, timing),
+  };
+}
+
+function runOne(fit: EstimatorFn, estimator: Estimator, path: string, timing: TimingOptions, warmRefit: SessionFactory | string | null): OursRun {
   const gcExposed = collectGarbage();
   const idle = snapshot();
   const probe = new PeakProbe();
@@ -119,17 +213,11 @@ function runOne(fit: EstimatorFn, estimator: Estimator, path: string, timing: Ti
   let floorSink = 0;
   base.floor = timeCall(() => onePassFloor(problem.X, problem.y, problem.p, header.trueCoefficients), timing, (s) => { floorSink += s; });
   if (!Number.isFinite(floorSink)) throw new Error('floor pass produced a non-finite sum');
-  if (warmRefit) {
+  if (typeof warmRefit === 'string') base.warmRefitError = `fit session not available: ${warmRefit}`;
+  else if (warmRefit) {
     // A failure here must not hide the cold figures above: it is reported on its own.
     try {
-      const before = fit(withoutLastRow(problem));
-      const warmStart: NonNullable<FitOptions['warmStart']> = { coefficients: before.coefficients, scale: before.scale };
-      if (before.basis) warmStart.basis = before.basis;
-      let coldLast = first;
-      let warmLast = first;
-      const cold = timeCall(() => fit(problem), timing, (r) => { coldLast = r; });
-      const warm = timeCall(() => fit(problem, { warmStart }), timing, (r) => { warmLast = r; });
-      base.warmRefit = { previousN: problem.n - 1, cold, warm, coldResult: summarize(coldLast), warmResult: summarize(warmLast) };
+      base.warmRefit = warmRefitRun(fit, estimator, problem, header.noiseSdM, timing, warmRefit, first);
     } catch (e) {
       base.warmRefitError = `threw ${(e as Error).name}: ${(e as Error).message}`;
     }
@@ -155,7 +243,7 @@ async function main(): Promise<void> {
     out = { estimator, n: header.n, p: header.p, available: false, error: missing[estimator] ?? 'not available' };
   } else {
     try {
-      out = runOne(fit, estimator, path, timing, args.get('warm-refit') === '1');
+      out = runOne(fit, estimator, path, timing, args.get('warm-refit') === '1' ? await loadSessionFactory() : null);
     } catch (e) {
       const { header } = readDataset(path);
       out = { estimator, n: header.n, p: header.p, available: true, error: `threw ${(e as Error).name}: ${(e as Error).message}` };

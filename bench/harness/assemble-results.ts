@@ -123,6 +123,21 @@ export function memoryRow(run: OursRun): MemoryRow | null {
 export function warmRefitRow(run: OursRun, data: RoundData): WarmRefitRow | null {
   const w = run.warmRefit;
   if (!w || run.error) return null;
+  if (w.cases.length > 0) {
+    // Session cases (run-ours.ts item 6): each already compared with the cold fitter on its own rows.
+    const worst = w.cases.reduce((a, c) => (Math.abs(c.relativeDifference) > Math.abs(a.relativeDifference) ? c : a));
+    return {
+      estimator: run.estimator, p: run.p, n: run.n,
+      coldSeconds: w.cold.medianSeconds, warmSeconds: w.warm.medianSeconds,
+      ratio: w.warm.medianSeconds / w.cold.medianSeconds,
+      sameResult: w.cases.every((c) => c.sameResult), relativeDifference: worst.relativeDifference,
+      warmIterations: w.warmResult.iterations, coldIterations: w.coldResult.iterations,
+      cases: w.cases.length,
+      fastPathCases: w.cases.filter((c) => c.iterations === 0).length,
+      warmSecondsMax: Math.max(...w.cases.map((c) => c.warmSeconds)),
+      rollbackSeconds: w.rollback.medianSeconds,
+    };
+  }
   const kind = OBJECTIVE_KIND[run.estimator];
   let diff: number;
   let same: boolean;

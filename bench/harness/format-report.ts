@@ -80,10 +80,12 @@ export function memoryTable(report: Pick<BenchReport, 'memory'>): Table {
 
 export function warmTable(report: Pick<BenchReport, 'warmRefit'>): Table {
   return {
-    headers: ['estimator', 'p', 'n', 'cold', 'warm', 'warm/cold', 'same answer', 'iterations warm/cold'],
-    align: ['l', 'r', 'r', 'r', 'r', 'r', 'l', 'r'],
+    headers: ['estimator', 'p', 'n', 'cold', 'warm (median)', 'warm max', 'warm/cold', 'same answer', 'iterations warm/cold', 'fast path', 'rollback'],
+    align: ['l', 'r', 'r', 'r', 'r', 'r', 'r', 'l', 'r', 'r', 'r'],
     rows: report.warmRefit.map((w) => [w.estimator, String(w.p), formatSize(w.n), formatSeconds(w.coldSeconds), formatSeconds(w.warmSeconds),
-      `1/${(1 / w.ratio).toFixed(1)}`, `${w.sameResult ? 'yes' : 'NO'} (${formatGap(w.relativeDifference)})`, `${w.warmIterations}/${w.coldIterations}`]),
+      w.warmSecondsMax === undefined ? '–' : formatSeconds(w.warmSecondsMax),
+      `1/${(1 / w.ratio).toFixed(1)}`, `${w.sameResult ? 'yes' : 'NO'} (${formatGap(w.relativeDifference)})`, `${w.warmIterations}/${w.coldIterations}`,
+      w.cases === undefined ? '–' : `${w.fastPathCases ?? 0}/${w.cases}`, w.rollbackSeconds === undefined ? '–' : formatSeconds(w.rollbackSeconds)]),
   };
 }
 

@@ -110,6 +110,13 @@ export interface WarmRefitRow {
   relativeDifference: number;
   warmIterations: number;
   coldIterations: number;
+  /** Session cases measured (bench/run-ours.ts item 6); warmSeconds is their median. */
+  cases?: number;
+  /** Cases answered without an iteration (the session's kept vertex, level or sums). */
+  fastPathCases?: number;
+  warmSecondsMax?: number;
+  /** One rollback() alone. */
+  rollbackSeconds?: number;
 }
 
 export interface TargetLine {
