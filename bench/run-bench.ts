@@ -180,7 +180,7 @@ async function main(): Promise<void> {
       coefficientExactness: `least squares, Huber, Tukey: |Δβⱼ| ≤ ${COEFFICIENT_REL_TOL}·(|βⱼ| + σ/maxᵢ|Xᵢⱼ|) for every j, σ = the data's noise sd; reference numpy lstsq (LS) or the R fixed-scale IRLS (M-estimators)`,
       mEstimatorRule: 'Huber k = 1.345, Tukey c = 4.685; start = exact L1 fit; scale = 1/Φ⁻¹(3/4)·median|r − median r| of the start residuals, held fixed; IRLS to a fixed point. MASS::rlm (timed peer) re-estimates the scale each iteration from a least-squares start: a different estimator, reported beside (its acc = 1e-12 run as a check)',
       memory: 'separate process per estimator and size; peak RSS (kernel VmHWM after clear_refs) during the first fit minus RSS of the idle process before the data were loaded; input = bytes of X and y',
-      warmRefit: 'fit n − 1 rows, add the n-th reading, refit with warmStart = previous coefficients, scale and basis; median warm time / median cold time on the same n rows',
+      warmRefit: '9 campaigns, the first n − 8 … n rows; a fit session on each campaign less its newest reading is fitted and checkpointed; timed: rollback + append the newest reading + fit; the median over campaigns of the median warm time / median cold plain fit of the n rows (src/fit/fit-session.ts)',
       caps: `peer runs predicted (power law from smaller n) over ${settings.capSeconds} s (checks: ${settings.checkCapSeconds} s) are skipped; a run is killed after max(cap, 50 s) + 2·budget + 60 s`,
       timingProtocol: 'a first call over 10 s is the only sample; otherwise warm-up, calibration, then at least 3 and at most maxRepeats batched samples within the budget',
     },

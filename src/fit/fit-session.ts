@@ -218,7 +218,7 @@ class Session implements FitSession {
     // Rows before cp.n were never written since (appends only write past the row count).
     this.rows = cp.n;
     this.weighted = cp.weighted;
-    this.sums = cp.sums && cloneSums(cp.sums);
+    this.sums = cp.sums && restoreSums(this.sums, cp.sums);
     this.kept = new Map(cp.kept);
   }
 
@@ -456,6 +456,28 @@ function cloneSums(sums: NormalSums): NormalSums {
   ws.gram.set(sums.ws.gram);
   ws.rhs.set(sums.ws.rhs);
   return { ws, base: Float64Array.from(sums.base), s: sums.s, rows: sums.rows, baseRows: sums.baseRows };
+}
+
+/**
+ * The checkpoint's sums, copied into `into` when it has the same layout (a rollback then
+ * allocates nothing: a refit on every save rolls back often), else a fresh copy.
+ */
+function restoreSums(into: NormalSums | null, from: NormalSums): NormalSums {
+  if (!into || into === from || into.ws.p !== from.ws.p || into.ws.intercept !== from.ws.intercept || into.ws.interceptValue !== from.ws.interceptValue) {
+    return cloneSums(from);
+  }
+  const a = into.ws;
+  const b = from.ws;
+  a.shift.set(b.shift);
+  a.scale.set(b.scale);
+  a.order.set(b.order);
+  a.gram.set(b.gram);
+  a.rhs.set(b.rhs);
+  into.base.set(from.base);
+  into.s = from.s;
+  into.rows = from.rows;
+  into.baseRows = from.baseRows;
+  return into;
 }
 
 /** bᵀG⁻¹b = ‖L⁻¹Pb‖² from the last factorisation (the chol is in the workspace's order). */
