@@ -5,7 +5,7 @@ import { interceptColumn, residualsOf, residualsRange } from './problem.ts';
 import { scratchFloat64 } from './scratch.ts';
 import type { FitResult, LinearProblem } from './types.ts';
 import {
-  accumulateNormal, accumulateResidualRhs, addRows, cloneNormalWorkspace, cofactorMatrix, createNormalWorkspace, factorNormal, solveCorrection,
+  accumulateNormal, accumulateResidualRhs, addRows, cloneNormalWorkspace, cofactorMatrix, createNormalWorkspace, factorNormal, lowerSolveNormSquared, solveCorrection,
   type NormalWorkspace,
 } from './weighted-normal.ts';
 import { NORMAL_MIN_PIVOT } from './least-squares.ts';
@@ -100,18 +100,9 @@ export function restoreSums(into: NormalSums | null, from: NormalSums): NormalSu
   return into;
 }
 
-/** bᵀG⁻¹b = ‖L⁻¹Pb‖² from the last factorisation (the chol is in the workspace's order). */
+/** bᵀG⁻¹b = ‖L⁻¹Pb‖² from the last factorisation. */
 function explainedSquares(ws: NormalWorkspace): number {
-  const { p, order, chol, rhs } = ws;
-  const u = new Float64Array(p);
-  let sum = 0;
-  for (let a = 0; a < p; a++) {
-    let t = rhs[order[a]];
-    for (let c = 0; c < a; c++) t -= chol[a * p + c] * u[c];
-    u[a] = t / chol[a * p + a];
-    sum += u[a] * u[a];
-  }
-  return sum;
+  return lowerSolveNormSquared(ws, ws.rhs, new Float64Array(ws.p));
 }
 
 export function sumsResult(problem: LinearProblem, sums: NormalSums, ratio: number, rebuilt: boolean): FitResult {

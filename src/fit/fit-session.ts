@@ -22,7 +22,7 @@ import { defineCachedField } from './cached-field.ts';
 import { fitHuber } from './huber.ts';
 import { fitLeastAbsolute } from './least-absolute.ts';
 import { GAP_TOL, ROW_ZERO_EPS } from './least-absolute-certificate.ts';
-import { factorLu, inverseFromLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
+import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
 import { fitLeastSquares, NORMAL_MIN_PIVOT } from './least-squares.ts';
 import { fitMinimax, ROUNDING_ULPS, VIOLATION_REL } from './minimax.ts';
 import { residualsOf, validateProblem } from './problem.ts';
@@ -330,13 +330,7 @@ function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: 
   }
   const lu = factorLu(AB, p);
   if (lu.singular) return undefined;
-  const inv = inverseFromLu(lu);
-  let invNorm = 0;
-  for (let k = 0; k < p; k++) {
-    let t = 0;
-    for (let j = 0; j < p; j++) t += Math.abs(inv[j * p + k]);
-    invNorm = Math.max(invNorm, t);
-  }
+  const invNorm = matrixNorm1(inverseFromLu(lu), p);
   const v: L1Vertex = {
     beta: Float64Array.from(coefficients), basis: Int32Array.from(basis), lu, invNorm,
     g: new Float64Array(p), comp: new Float64Array(p), absSum: new Float64Array(p),

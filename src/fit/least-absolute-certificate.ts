@@ -18,7 +18,7 @@
 // second pass with every term compensated (`compensatedSideSum`, error ≤ ε|G| + γ²_{n}Σ|aᵢⱼ|).
 // The objective, a sum of positive terms, is summed in the same blocks (error ≤ (SUM_BLOCK +
 // n/SUM_BLOCK)·ε relative).
-import { factorLu, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
+import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
 import { nonFiniteRow } from './simplex-frame.ts';
 import type { LinearProblem } from './types.ts';
 
@@ -203,12 +203,7 @@ export function certify(
   }
   // |δz_k| ≤ Σ_j |A_B⁻¹[j, k]|·max_j|δG_j|.
   const inv = inverseFromLu(lu);
-  let invNorm = 0;
-  for (let k = 0; k < p; k++) {
-    let s = 0;
-    for (let j = 0; j < p; j++) s += Math.abs(inv[j * p + k]);
-    invNorm = Math.max(invNorm, s);
-  }
+  const invNorm = matrixNorm1(inv, p);
   const dual = (): [number, number] => {
     const z = solveLuTransposed(lu, G);
     let maxDual = 0;

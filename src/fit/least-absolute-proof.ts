@@ -18,7 +18,7 @@ import { GAP_TOL } from './least-absolute-certificate.ts';
 import { provenScale, type Band } from './least-absolute-band.ts';
 import type { CompactLeastAbsolute, DescentResult } from './least-absolute-descent.ts';
 import { SCREEN_BLOCK, type FullScreen } from './least-absolute-screen.ts';
-import { factorLu, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
+import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
 import type { ColumnFrame } from './simplex-frame.ts';
 import type { LinearProblem } from './types.ts';
 
@@ -87,13 +87,7 @@ export function proveByBand(problem: LinearProblem, frame: ColumnFrame, band: Ba
     }
     cErr = Math.max(cErr, e + Number.EPSILON * Math.abs(g[k]));
   }
-  const inv = inverseFromLu(lu);
-  let invNorm = 0;
-  for (let k = 0; k < p; k++) {
-    let s = 0;
-    for (let j = 0; j < p; j++) s += Math.abs(inv[j * p + k]);
-    invNorm = Math.max(invNorm, s);
-  }
+  const invNorm = matrixNorm1(inverseFromLu(lu), p);
   const zErr = invNorm * cErr + 2 * p * Number.EPSILON * maxDual;
   const gapBound = Math.max(0, maxDual + zErr - 1);
   const dualProved = gapBound <= GAP_TOL;

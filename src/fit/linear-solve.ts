@@ -94,6 +94,21 @@ export function solveLuTransposed(f: LuFactors, b: ArrayLike<number>, out: Float
   return out;
 }
 
+/**
+ * ‖M‖₁ = max over k of Σⱼ|M[j, k]| (row-major p×p). Of M = A⁻¹ it is the bound |δz_k| ≤
+ * ‖A⁻¹‖₁·max_j|δG_j| of the dual certificates (least-absolute-certificate.ts, -proof.ts,
+ * fit-session.ts); of A and A⁻¹ it gives the condition number.
+ */
+export function matrixNorm1(m: Float64Array, p: number): number {
+  let norm = 0;
+  for (let k = 0; k < p; k++) {
+    let s = 0;
+    for (let j = 0; j < p; j++) s += Math.abs(m[j * p + k]);
+    norm = Math.max(norm, s);
+  }
+  return norm;
+}
+
 /** A⁻¹, row-major, from the factors. */
 export function inverseFromLu(f: LuFactors): Float64Array {
   const { n } = f;
@@ -113,17 +128,7 @@ export function inverseFromLu(f: LuFactors): Float64Array {
 export function reciprocalCondition(a: Float64Array, f: LuFactors): number {
   if (f.singular) return 0;
   const { n } = f;
-  const inv = inverseFromLu(f);
-  const norm1 = (m: Float64Array): number => {
-    let best = 0;
-    for (let j = 0; j < n; j++) {
-      let s = 0;
-      for (let i = 0; i < n; i++) s += Math.abs(m[i * n + j]);
-      best = Math.max(best, s);
-    }
-    return best;
-  };
-  const r = 1 / (norm1(a) * norm1(inv));
+  const r = 1 / (matrixNorm1(a, n) * matrixNorm1(inverseFromLu(f), n));
   return Number.isFinite(r) ? Math.min(1, r) : 0;
 }
 

@@ -281,22 +281,31 @@ function toCoefficients(ws: NormalWorkspace, v: Float64Array): void {
  * Qⱼⱼ = tⱼᵀG⁻¹tⱼ = ‖L⁻¹P tⱼ‖² with tⱼ row j of the θ→β map.
  */
 export function cofactorDiagonal(ws: NormalWorkspace, out: Float64Array): void {
-  const { p, order, chol, scale, shift, intercept, interceptValue, z, theta } = ws;
+  const { p, scale, shift, intercept, interceptValue, z, theta } = ws;
   for (let j = 0; j < p; j++) {
     z.fill(0);
     z[j] = scale[j];
     if (j === intercept) {
       for (let k = 0; k < p; k++) if (k !== intercept) z[k] = (-shift[k] * scale[k]) / interceptValue;
     }
-    let sum = 0;
-    for (let a = 0; a < p; a++) {
-      let t = z[order[a]];
-      for (let c = 0; c < a; c++) t -= chol[a * p + c] * theta[c];
-      theta[a] = t / chol[a * p + a];
-      sum += theta[a] * theta[a];
-    }
-    out[j] = sum;
+    out[j] = lowerSolveNormSquared(ws, z, theta);
   }
+}
+
+/**
+ * ‖L⁻¹P v‖² from the last factorisation (L is in the workspace's factor order), the forward
+ * solve written into `work`: vᵀG⁻¹v, the quadratic form behind the cofactors and bᵀG⁻¹b.
+ */
+export function lowerSolveNormSquared(ws: NormalWorkspace, v: Float64Array, work: Float64Array): number {
+  const { p, order, chol } = ws;
+  let sum = 0;
+  for (let a = 0; a < p; a++) {
+    let t = v[order[a]];
+    for (let c = 0; c < a; c++) t -= chol[a * p + c] * work[c];
+    work[a] = t / chol[a * p + a];
+    sum += work[a] * work[a];
+  }
+  return sum;
 }
 
 /** (XᵀVX)⁻¹ in the units of β (row-major p×p), from the last factorisation. */
