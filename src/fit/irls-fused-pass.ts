@@ -37,7 +37,7 @@ export function fusedPassApplies(problem: LinearProblem, rho: RhoFunction): bool
  * IRLS weight ψ(u)/u and gᵢ = ψ′(uᵢ) for a Newton step (`newton`), vᵢ otherwise; z as in
  * weighted-normal.ts. For p = 2 the third column is carried as zeros (z₂ = 0 adds nothing), one
  * loop for both degree models. With a Huber `band` the pass also lists the readings with
- * ||u| − k| < band.margin and each column's range (huber-active-set.ts).
+ * ||u| − k| < band.margin (huber-active-set.ts).
  */
 export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float64Array, scale: number, residuals: Float64Array,
   robustWeights: Float64Array, residualsReady: boolean, ws: NormalWorkspace, newton: boolean, out: FusedSums, band: HuberBand | null = null): void {
@@ -64,7 +64,6 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
   const bx = band ? band.x : EMPTY, br = band ? band.r : EMPTY;
   const capacity = br.length;
   let listed = 0;
-  let lo0 = Infinity, lo1 = Infinity, lo2 = Infinity, hi0 = -Infinity, hi1 = -Infinity, hi2 = -Infinity;
   for (let i = 0, o = 0; i < n; i++, o += p) {
     const x0 = X[o], x1 = X[o + 1], x2 = three ? X[o + 2] : 0;
     const r = residualsReady ? residuals[i] : y[i] - (three ? x0 * c0 + x1 * c1 + x2 * c2 : x0 * c0 + x1 * c1);
@@ -98,9 +97,6 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
         }
         listed++;
       }
-      lo0 = Math.min(lo0, x0); hi0 = Math.max(hi0, x0);
-      lo1 = Math.min(lo1, x1); hi1 = Math.max(hi1, x1);
-      lo2 = Math.min(lo2, x2); hi2 = Math.max(hi2, x2);
     } else if (a <= k) {
       const q = u * u * invC2;
       const t = 1 - q;
@@ -133,11 +129,6 @@ export function fusedPass(problem: LinearProblem, rho: RhoFunction, beta: Float6
   if (band && huber) {
     band.count = Math.min(listed, capacity);
     band.overflowed = listed > capacity;
-    band.colMin[0] = lo0; band.colMax[0] = hi0;
-    band.colMin[1] = lo1; band.colMax[1] = hi1;
-    if (three) {
-      band.colMin[2] = lo2; band.colMax[2] = hi2;
-    }
   }
   out.objective = objective;
   out.changed = changed;

@@ -173,7 +173,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   // The first pass at the L1 start can use the L1 fit's residuals (the same formula, bit for bit).
   let residualsReady = lent.residualsAtStart === true && out.residuals === lent.residuals;
   // Huber on the fused path: the first pass lists the readings near ±k for the active-set finish.
-  let band: HuberBand | null = fused && rho.piecewiseQuadratic && n >= HUBER_BAND_MIN_ROWS ? createHuberBand(n, p) : null;
+  let band: HuberBand | null = fused && rho.piecewiseQuadratic && n >= HUBER_BAND_MIN_ROWS ? createHuberBand(problem) : null;
   while (stop.iterations < maxIterations) {
     // One pass: Σρ and the side changes at β, the returned residuals and weights, and the normal
     // equations of the step to take (IRLS, or Newton when one is due).
