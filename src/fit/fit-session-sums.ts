@@ -60,7 +60,8 @@ export function foldRows(sums: NormalSums, problem: LinearProblem): boolean {
   if (ws.intercept >= 0) {
     for (let i = sums.rows; i < n; i++) if (X[i * p + ws.intercept] !== ws.interceptValue) return false;
   }
-  const r = new Float64Array(Math.min(FOLD_CHUNK, n - sums.rows));
+  // Scratch: a refit on every save folds one row at a time, and a fresh buffer per fold was garbage.
+  const r = scratchFloat64('fit-session-fold', Math.min(FOLD_CHUNK, n - sums.rows));
   for (let start = sums.rows; start < n; start += FOLD_CHUNK) {
     const m = Math.min(FOLD_CHUNK, n - start);
     residualsRange(problem, sums.base, start, m, r);
@@ -102,7 +103,7 @@ export function restoreSums(into: NormalSums | null, from: NormalSums): NormalSu
 
 /** bᵀG⁻¹b = ‖L⁻¹Pb‖² from the last factorisation. */
 function explainedSquares(ws: NormalWorkspace): number {
-  return lowerSolveNormSquared(ws, ws.rhs, new Float64Array(ws.p));
+  return lowerSolveNormSquared(ws, ws.rhs, scratchFloat64('fit-session-explained', ws.p));
 }
 
 export function sumsResult(problem: LinearProblem, sums: NormalSums, ratio: number, rebuilt: boolean): FitResult {
@@ -129,7 +130,7 @@ export function sumsResult(problem: LinearProblem, sums: NormalSums, ratio: numb
   };
   if (dof > 0) {
     const s2 = objective / dof;
-    result.covariance = cofactorMatrix(sums.ws).map((c) => c * s2);
+    result.covariance = cofactorMatrix(sums.ws, s2);
   }
   defineCachedField(result, 'residuals', () => residualsOf(problem, beta));
   return result;

@@ -308,14 +308,16 @@ export function lowerSolveNormSquared(ws: NormalWorkspace, v: Float64Array, work
   return sum;
 }
 
-/** (XᵀVX)⁻¹ in the units of β (row-major p×p), from the last factorisation. */
-export function cofactorMatrix(ws: NormalWorkspace): Float64Array {
+/** factor·(XᵀVX)⁻¹ in the units of β (row-major p×p), from the last factorisation. */
+export function cofactorMatrix(ws: NormalWorkspace, factor = 1): Float64Array {
   const { p } = ws;
   const out = new Float64Array(p * p);
-  const col = new Float64Array(p);
+  // Temporaries reused across calls (a session refit on every save calls this per fit; fresh
+  // small typed arrays were a third of its allocations).
+  if (cofactorTemp.col.length !== p) cofactorTemp = { inv: new Float64Array(p * p), col: new Float64Array(p), saved: new Float64Array(p) };
+  const { inv, col, saved } = cofactorTemp;
+  saved.set(ws.rhs);
   // Column k of G⁻¹ in θ units, mapped to β for rows, then the transposed map for columns.
-  const inv = new Float64Array(p * p);
-  const saved = Float64Array.from(ws.rhs);
   for (let k = 0; k < p; k++) {
     ws.rhs.fill(0);
     ws.rhs[k] = 1;
@@ -332,10 +334,12 @@ export function cofactorMatrix(ws: NormalWorkspace): Float64Array {
   for (let j = 0; j < p; j++) {
     for (let k = 0; k < p; k++) col[k] = inv[j * p + k];
     toCoefficients(ws, col);
-    for (let k = 0; k < p; k++) out[j * p + k] = col[k];
+    for (let k = 0; k < p; k++) out[j * p + k] = col[k] * factor;
   }
   return out;
 }
+
+let cofactorTemp = { inv: new Float64Array(0), col: new Float64Array(0), saved: new Float64Array(0) };
 
 /** θ = G⁻¹b by forward and back substitution on the permuted factor L Lᵀ. */
 function solveTheta(ws: NormalWorkspace, out: Float64Array): void {
