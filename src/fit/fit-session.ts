@@ -19,7 +19,8 @@
 // scale) when first read (cached-field.ts), from the rows the fit saw.
 import { InputError } from '../errors.ts';
 import { defineCachedField } from './cached-field.ts';
-import { fitHuber } from './huber.ts';
+import { fitHuber, HUBER_K, huberRho } from './huber.ts';
+import { buildHuberKept, refitHuberKept, type HuberKept } from './fit-session-huber.ts';
 import { fitLeastAbsolute } from './least-absolute.ts';
 import { GAP_TOL, ROW_ZERO_EPS } from './least-absolute-certificate.ts';
 import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
@@ -28,6 +29,7 @@ import { fitMinimax, ROUNDING_ULPS, VIOLATION_REL } from './minimax.ts';
 import { residualsOf, validateProblem } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { buildSums, cloneSums, foldRows, restoreSums, SUMS_REBUILD_GROWTH, sumsResult, type NormalSums } from './fit-session-sums.ts';
+import { extendSorted, madOfSorted, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
 import { fitTukey } from './tukey.ts';
 import { ESTIMATORS, type Estimator, type FitOptions, type FitResult, type LinearProblem } from './types.ts';
 import { factorNormal } from './weighted-normal.ts';
@@ -64,6 +66,10 @@ interface Kept {
   level?: number;
   /** Least absolute deviations: the vertex's dual state over the result's rows. */
   vertex?: L1Vertex;
+  /** Least absolute deviations: the whitened residuals at the vertex, sorted (the M-estimators' scale; fit-session-scale.ts). */
+  sorted?: SortedResiduals;
+  /** Huber: the partition sums of its exact answer (fit-session-huber.ts). */
+  huber?: HuberKept;
 }
 
 /**
@@ -177,7 +183,7 @@ class Session implements FitSession {
     if (estimator === 'least-squares') kept = { result: this.leastSquares(problem), n: problem.n };
     else if (estimator === 'minimax') kept = this.minimax(problem, prev, options);
     else if (estimator === 'least-absolute') kept = leastAbsolute(problem, prev, options);
-    else kept = { result: warmFit(estimator, problem, prev?.result, options), n: problem.n };
+    else kept = this.mEstimate(estimator, problem, prev, options);
     this.kept.set(estimator, kept);
     return kept.result;
   }
@@ -230,6 +236,46 @@ class Session implements FitSession {
     return sumsResult(problem, sums, ratio, rebuilt);
   }
 
+  /**
+   * Huber, Tukey: the cold fitter's recipe with the session's parts. The exact L1 fit of these
+   * rows comes from the session (its vertex kept when still optimal), its MAD scale from the kept
+   * sorted residuals when the vertex is the previous one (fit-session-scale.ts), and IRLS at that
+   * fixed scale starts from this estimator's previous answer (Newton at once, irls.ts). Huber's ρ
+   * is convex, so the start does not change its fixed-scale optimum; Tukey's is not, and a start
+   * one reading away from the answer is at least as close to the cold fit's basin as the L1 start.
+   * A caller's own warm start or scale, a failed L1 fit or a zero scale: the plain fitter decides.
+   */
+  private mEstimate(estimator: 'huber' | 'tukey', problem: LinearProblem, prev: Kept | undefined, options: FitOptions): Kept {
+    const { n } = problem;
+    const plain = (): Kept => ({ result: warmFit(estimator, problem, prev?.result, options), n });
+    if (options.warmStart || options.scale !== undefined || n < problem.p) return plain();
+    const l1Prev = this.kept.get('least-absolute');
+    const l1 = leastAbsolute(problem, l1Prev, {});
+    this.kept.set('least-absolute', l1);
+    if (l1.result.status !== 'ok') return plain();
+    const { scale, how } = sessionScale(problem, l1, l1Prev);
+    if (!(scale > 0) || !Number.isFinite(scale)) return plain();
+    const note = (result: FitResult, start: string): void => {
+      result.reason += `; fit session: ${start}, the scale the MAD of its exact L1 fit of these ${n} rows (${how})`;
+    };
+    if (estimator === 'huber' && prev?.huber) {
+      const kept = refitHuberKept(problem, prev.huber, scale, huberRho(prev.huber.k), l1.result.basis);
+      if (kept && (options.tuning ?? HUBER_K) === prev.huber.k) {
+        note(kept.result, 'the partition kept from the previous huber fit');
+        return { result: kept.result, n, huber: kept.kept };
+      }
+    }
+    const start = prev && prev.result.status === 'ok' ? prev.result.coefficients : l1.result.coefficients;
+    const fitOptions: FitOptions = { ...options, scale, warmStart: { coefficients: start } };
+    const result = estimator === 'huber' ? fitHuber(problem, fitOptions) : fitTukey(problem, fitOptions);
+    if (l1.result.basis) result.basis = l1.result.basis;
+    note(result, `the start is ${start === l1.result.coefficients ? 'its exact L1 fit' : `the previous ${estimator} fit`}`);
+    // Huber's exact answer becomes the base of the kept partition sums (one pass over the rows).
+    const huber = estimator === 'huber' && result.status === 'ok' && result.converged
+      ? buildHuberKept(problem, result.coefficients, scale, options.tuning ?? HUBER_K) : undefined;
+    return huber ? { result, n, huber } : { result, n };
+  }
+
   private minimax(problem: LinearProblem, prev: Kept | undefined, options: FitOptions): Kept {
     const { n, p, X, y, weights } = problem;
     if (prev && prev.level !== undefined && prev.result.status === 'ok' && prev.result.basis && prev.n <= n) {
@@ -279,7 +325,12 @@ function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: 
   if (prev && v && prev.n <= n && !options.warmStart) {
     const next = extendVertex(v, problem, prev.n);
     const test = dualTest(next, n);
-    if (test.ok) return { result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next };
+    if (test.ok) {
+      const kept: Kept = { result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next };
+      // Sorted residuals of fewer rows at the same vertex stay valid; the next M-fit extends them.
+      if (prev.sorted?.beta === next.beta) kept.sorted = prev.sorted;
+      return kept;
+    }
   }
   const result = warmFit('least-absolute', problem, prev?.result, options);
   const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis) : undefined;
@@ -364,6 +415,28 @@ function dualTest(v: L1Vertex, n: number): { ok: boolean; maxDual: number } {
   for (let j = 0; j < p; j++) gErr = Math.max(gErr, Number.EPSILON * Math.abs(G[j]) + gamma(n) ** 2 * absSum[j]);
   const zErr = invNorm * gErr + 2 * p * Number.EPSILON * maxDual;
   return { ok: maxDual + zErr <= 1 + GAP_TOL, maxDual };
+}
+
+/**
+ * The L1 fit's MAD scale over all rows. The vertex kept from the previous fit: its sorted residuals
+ * with the new rows inserted (the sort itself is paid the first time a vertex is kept, or on the
+ * session's first fit); a new vertex: the L1 result's own scale (a selection over the rows).
+ */
+function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined): { scale: number; how: string } {
+  const beta = l1.vertex?.beta;
+  if (beta) {
+    const sameVertex = l1Prev?.vertex?.beta === beta;
+    const kept = l1Prev?.sorted;
+    if (sameVertex && kept && kept.beta === beta && kept.rows <= problem.n) {
+      l1.sorted = kept.rows === problem.n ? kept : extendSorted(kept, problem);
+      return { scale: madOfSorted(l1.sorted.values), how: `the vertex kept: ${problem.n - kept.rows} residuals inserted into the sorted ${kept.rows}` };
+    }
+    if (sameVertex || !l1Prev) {
+      l1.sorted = sortResiduals(problem, beta);
+      return { scale: madOfSorted(l1.sorted.values), how: 'its residuals sorted once for later refits' };
+    }
+  }
+  return { scale: l1.result.scale, how: 'a new vertex: the MAD by selection' };
 }
 
 /** The plain fitter, warm-started from this estimator's previous session result (a start only). */
