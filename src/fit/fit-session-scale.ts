@@ -71,10 +71,9 @@ function sortedMiddle(kth: (k: number) => number, n: number): number {
   return Number.isFinite(mid) ? mid : lo / 2 + hi / 2;
 }
 
-/** 1.4826·median|vᵢ − median v| of sorted v, the MAD scale robust-scale.ts computes by selection. */
-export function madOfSorted(v: Float64Array): number {
+/** The median m of sorted v and the k-th smallest |vᵢ − m| (0-based), O(log n) each. */
+function sortedDeviations(v: Float64Array): { m: number; kth: (k: number) => number } {
   const n = v.length;
-  if (n === 0) return NaN;
   const m = sortedMiddle((k) => v[k], n);
   // Deviations: A[j] = m − v[a−1−j] (left of m, ascending), B[j] = v[a+j] − m (right, ascending).
   const a = upperBound(v, n, m);
@@ -82,7 +81,7 @@ export function madOfSorted(v: Float64Array): number {
   const nb = n - a;
   const A = (j: number): number => m - v[a - 1 - j];
   const B = (j: number): number => v[a + j] - m;
-  // k-th smallest (0-based) of A ∪ B: t values from A and k + 1 − t from B, the smallest t with
+  // k-th smallest of A ∪ B: t values from A and k + 1 − t from B, the smallest t with
   // A[t] ≥ B[k − t] (binary search; both runs ascending).
   const kth = (k: number): number => {
     let lo = Math.max(0, k + 1 - nb);
@@ -96,5 +95,58 @@ export function madOfSorted(v: Float64Array): number {
     const fromB = k - lo >= 0 && k - lo < nb ? B(k - lo) : -Infinity;
     return Math.max(fromA, fromB);
   };
+  return { m, kth };
+}
+
+/** 1.4826·median|vᵢ − median v| of sorted v, the MAD scale robust-scale.ts computes by selection. */
+export function madOfSorted(v: Float64Array): number {
+  const n = v.length;
+  if (n === 0) return NaN;
+  const { kth } = sortedDeviations(v);
   return MAD_CONSISTENCY * sortedMiddle(kth, n);
+}
+
+/**
+ * The MAD scale at a new vertex β′ from the sorted residuals at the previous one, in two passes
+ * over the rows instead of a selection over all of them. Each old row's whitened residual moved by
+ * at most `reach` (≥ √wᵢ|xᵢᵀ(β′ − β)|, from the columns' ranges), so each order statistic of
+ * the old rows moved by at most `reach`, and a added rows shift ranks by at most a: the wanted
+ * order statistics lie in windows [old(k₁ − a) − reach, old(k₂) + reach]. A pass counts the rows
+ * below the window and keeps those inside; a selection among the kept gives the exact value. The
+ * deviations |ρ′ᵢ − m′| moved by at most reach + |m′ − m|, which gives the second pass's window.
+ * Null when a count contradicts the windows (rounding at their edges): the caller selects directly.
+ */
+export function madAfterMove(problem: LinearProblem, beta: Float64Array, old: SortedResiduals, reach: number): number | null {
+  const n = problem.n;
+  const added = n - old.rows;
+  if (added < 0 || !(reach >= 0) || !Number.isFinite(reach)) return null;
+  const rho = whitened(problem, beta, 0, n);
+  const oldAt = (k: number): number => (k < 0 ? -Infinity : k >= old.rows ? Infinity : old.values[k]);
+  const middle = windowedMiddle(rho, n, (k) => oldAt(k), added, reach);
+  if (middle === null) return null;
+  const dev = sortedDeviations(old.values);
+  const devAt = (k: number): number => (k < 0 ? -Infinity : k >= old.rows ? Infinity : dev.kth(k));
+  for (let i = 0; i < n; i++) rho[i] = Math.abs(rho[i] - middle);
+  const spread = windowedMiddle(rho, n, devAt, added, reach + Math.abs(middle - dev.m));
+  return spread === null ? null : MAD_CONSISTENCY * spread;
+}
+
+/** The middle of values[0..n) (as sortedMiddle takes it) found inside the window the old order statistics give. */
+function windowedMiddle(values: Float64Array, n: number, oldAt: (k: number) => number, added: number, reach: number): number | null {
+  const k2 = n >> 1;
+  const k1 = n % 2 === 1 ? k2 : k2 - 1;
+  const lo = oldAt(k1 - added) - reach;
+  const hi = oldAt(k2) + reach;
+  let below = 0;
+  const inside: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
+    if (v < lo) below++;
+    else if (v <= hi && inside.length <= n >> 2) inside.push(v);
+    else if (v <= hi) return null;
+  }
+  // A window holding a quarter of the rows saves nothing over a selection.
+  if (below > k1 || k2 >= below + inside.length || inside.length > Math.max(64, n >> 2)) return null;
+  inside.sort((a, b) => a - b);
+  return sortedMiddle((k) => inside[k - below], n);
 }

@@ -29,7 +29,7 @@ import { fitMinimax, ROUNDING_ULPS, VIOLATION_REL } from './minimax.ts';
 import { residualsOf, validateProblem } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { buildSums, cloneSums, foldRows, restoreSums, SUMS_REBUILD_GROWTH, sumsResult, type NormalSums } from './fit-session-sums.ts';
-import { extendSorted, madOfSorted, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
+import { extendSorted, madAfterMove, madOfSorted, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
 import { fitTukey } from './tukey.ts';
 import { ESTIMATORS, type Estimator, type FitOptions, type FitResult, type LinearProblem } from './types.ts';
 import { factorNormal } from './weighted-normal.ts';
@@ -118,6 +118,8 @@ class Session implements FitSession {
   private sums: NormalSums | null = null;
   private kept = new Map<Estimator, Kept>();
   private saved: Checkpoint | null = null;
+  /** Bounds over every row ever appended (a superset after a rollback, still a bound): max |xᵢⱼ| per column, max √wᵢ, max |yᵢ|. */
+  private readonly bounds: RowBounds;
 
   constructor(problem: LinearProblem) {
     const { n, p } = problem;
@@ -134,6 +136,8 @@ class Session implements FitSession {
       this.w = new Float64Array(cap);
       this.w.set(problem.weights);
     }
+    this.bounds = { colAbsMax: new Float64Array(p), sqrtWMax: 0, yAbsMax: 0 };
+    widenBounds(this.bounds, this.problem, 0);
   }
 
   get n(): number {
@@ -170,7 +174,9 @@ class Session implements FitSession {
       if (this.weighted && this.w) this.w[i] = row.weight ?? 1;
       i++;
     }
+    const from = this.rows;
     this.rows = n;
+    widenBounds(this.bounds, this.problem, from);
   }
 
   fit(estimator: Estimator, options: FitOptions = {}): FitResult {
@@ -253,7 +259,7 @@ class Session implements FitSession {
     const l1 = leastAbsolute(problem, l1Prev, {});
     this.kept.set('least-absolute', l1);
     if (l1.result.status !== 'ok') return plain();
-    const { scale, how } = sessionScale(problem, l1, l1Prev);
+    const { scale, how } = sessionScale(problem, l1, l1Prev, this.bounds);
     if (!(scale > 0) || !Number.isFinite(scale)) return plain();
     const note = (result: FitResult, start: string): void => {
       result.reason += `; fit session: ${start}, the scale the MAD of its exact L1 fit of these ${n} rows (${how})`;
@@ -337,26 +343,40 @@ function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: 
   return vertex ? { result, n, vertex } : { result, n };
 }
 
-/** Zero tolerance of row i at β: the certificate's rowTol (ROW_ZERO_EPS·ε·√wᵢ(|yᵢ| + Σ|xᵢⱼβⱼ|)). */
-function rowTolerance(problem: LinearProblem, i: number, beta: Float64Array, sw: number): number {
-  const { p, X, y } = problem;
-  let m = Math.abs(y[i]);
-  for (let j = 0; j < p; j++) m += Math.abs(X[i * p + j] * beta[j]);
-  return ROW_ZERO_EPS * Number.EPSILON * sw * m;
+/**
+ * Adds the side terms of rows from … n−1 to g in place, except the rows in `skip` (the basis).
+ * A row is zero to rounding when |ρᵢ| ≤ the certificate's rowTol, ROW_ZERO_EPS·ε·√wᵢ(|yᵢ| + Σ|xᵢⱼβⱼ|).
+ * The loop runs over the segments between skipped rows with the constants in locals: after a new
+ * vertex this is a full pass, and a per-row Set lookup and tolerance call were a quarter of a
+ * session's refit time.
+ */
+function addSideTerms(v: L1Vertex, problem: LinearProblem, from: number, skip: Int32Array | null): void {
+  const { n } = problem;
+  const cuts = skip ? Array.from(skip).filter((i) => i >= from && i < n).sort((a, b) => a - b) : [];
+  let start = from;
+  for (const cut of cuts) {
+    addSideSegment(v, problem, start, cut);
+    start = cut + 1;
+  }
+  addSideSegment(v, problem, start, n);
 }
 
-/** Adds the side terms of rows from … n−1 (none of them basis rows) to g in place. */
-function addSideTerms(v: L1Vertex, problem: LinearProblem, from: number, skip: ReadonlySet<number> | null): void {
-  const { n, p, X, y, weights } = problem;
+function addSideSegment(v: L1Vertex, problem: LinearProblem, from: number, to: number): void {
+  const { p, X, y, weights } = problem;
   const { beta, g, comp, absSum } = v;
-  for (let i = from; i < n; i++) {
-    if (skip?.has(i)) continue;
+  const zeroEps = ROW_ZERO_EPS * Number.EPSILON;
+  for (let i = from; i < to; i++) {
     const sw = weights ? Math.sqrt(weights[i]) : 1;
     let f = 0;
-    for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+    let m = Math.abs(y[i]);
+    for (let j = 0; j < p; j++) {
+      const t = X[i * p + j] * beta[j];
+      f += t;
+      m += Math.abs(t);
+      absSum[j] += Math.abs(sw * X[i * p + j]);
+    }
     const rho = sw * (y[i] - f);
-    for (let j = 0; j < p; j++) absSum[j] += Math.abs(sw * X[i * p + j]);
-    if (!(Math.abs(rho) > rowTolerance(problem, i, beta, sw))) continue;
+    if (!(Math.abs(rho) > zeroEps * sw * m)) continue;
     const side = rho > 0 ? sw : -sw;
     for (let j = 0; j < p; j++) {
       // TwoSum (Knuth): g + t = u + e exactly.
@@ -386,7 +406,7 @@ function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: 
     beta: Float64Array.from(coefficients), basis: Int32Array.from(basis), lu, invNorm,
     g: new Float64Array(p), comp: new Float64Array(p), absSum: new Float64Array(p),
   };
-  addSideTerms(v, problem, 0, new Set(basis));
+  addSideTerms(v, problem, 0, v.basis);
   return v;
 }
 
@@ -422,7 +442,7 @@ function dualTest(v: L1Vertex, n: number): { ok: boolean; maxDual: number } {
  * with the new rows inserted (the sort itself is paid the first time a vertex is kept, or on the
  * session's first fit); a new vertex: the L1 result's own scale (a selection over the rows).
  */
-function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined): { scale: number; how: string } {
+function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined, bounds: RowBounds): { scale: number; how: string } {
   const beta = l1.vertex?.beta;
   if (beta) {
     const sameVertex = l1Prev?.vertex?.beta === beta;
@@ -435,8 +455,32 @@ function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined
       l1.sorted = sortResiduals(problem, beta);
       return { scale: madOfSorted(l1.sorted.values), how: 'its residuals sorted once for later refits' };
     }
+    if (kept && kept.rows <= problem.n) {
+      // Every whitened residual moved by ≤ √w_max·Σⱼ max|xⱼ|·|Δβⱼ|, plus the rounding of a
+      // residual of readings up to max|y| (64ε of it: far above the few ulps of y − xᵀβ).
+      let reach = 0;
+      for (let j = 0; j < beta.length; j++) reach += bounds.colAbsMax[j] * Math.abs(beta[j] - kept.beta[j]);
+      reach = bounds.sqrtWMax * (reach + 64 * Number.EPSILON * (bounds.yAbsMax + reach));
+      const scale = madAfterMove(problem, beta, kept, reach);
+      if (scale !== null) return { scale, how: `a new vertex: the MAD from windows of ±${reach.toPrecision(2)} around the previous vertex's order statistics` };
+    }
   }
   return { scale: l1.result.scale, how: 'a new vertex: the MAD by selection' };
+}
+
+interface RowBounds {
+  colAbsMax: Float64Array;
+  sqrtWMax: number;
+  yAbsMax: number;
+}
+
+function widenBounds(b: RowBounds, problem: LinearProblem, from: number): void {
+  const { n, p, X, y, weights } = problem;
+  for (let i = from; i < n; i++) {
+    for (let j = 0; j < p; j++) b.colAbsMax[j] = Math.max(b.colAbsMax[j], Math.abs(X[i * p + j]));
+    b.sqrtWMax = Math.max(b.sqrtWMax, weights ? Math.sqrt(weights[i]) : 1);
+    b.yAbsMax = Math.max(b.yAbsMax, Math.abs(y[i]));
+  }
 }
 
 /** The plain fitter, warm-started from this estimator's previous session result (a start only). */

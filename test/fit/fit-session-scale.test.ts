@@ -2,7 +2,7 @@
 // brute force: sort, take the median, sort the absolute deviations, take their median, × 1/Φ⁻¹(3/4)
 // (1.482602218505602, check-values.md; Hampel 1974). Seeded invented values with ties and outliers.
 import { describe, expect, it } from 'vitest';
-import { extendSorted, madOfSorted, sortResiduals } from '../../src/fit/fit-session-scale.ts';
+import { extendSorted, madAfterMove, madOfSorted, sortResiduals } from '../../src/fit/fit-session-scale.ts';
 import { madScaleOverwrite } from '../../src/fit/robust-scale.ts';
 import type { LinearProblem } from '../../src/fit/types.ts';
 import { seeded as mulberry32 } from './least-absolute-reference.ts';
@@ -82,5 +82,40 @@ describe('sortResiduals / extendSorted', () => {
       kept = next;
     }
     expect(Array.from(sortResiduals(pr(300), beta).values)).toEqual(Array.from(first));
+  });
+});
+
+describe('madAfterMove', () => {
+  it('gives the brute-force MAD at a moved β with rows added, from windows around the old order statistics', () => {
+    const rand = mulberry32(91);
+    const n = 2000;
+    const p = 2;
+    const X = new Float64Array(n * p);
+    const y = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const s = Math.sin((rand() * 70 * Math.PI) / 180);
+      X[i * p] = 1;
+      X[i * p + 1] = s * s;
+      y[i] = 110574 + 1120 * s * s + (rand() - 0.5) * 10 + (rand() < 0.05 ? 200 : 0);
+    }
+    const pr = (m: number): LinearProblem => ({ n: m, p, X: X.subarray(0, m * p), y: y.subarray(0, m) });
+    const old = sortResiduals(pr(1990), Float64Array.from([110574, 1120]));
+    for (const [m, dc, dm] of [[1990, 0.001, -0.002], [1991, 0.004, 0.001], [1995, -0.003, 0.01], [2000, 0.02, -0.05]] as const) {
+      const beta = Float64Array.from([110574 + dc, 1120 + dm]);
+      // max |x| per column is 1 and ≤ 0.883 (sin²70°): the reach bound of the session.
+      const reach = Math.abs(dc) + Math.abs(dm);
+      const want: number[] = [];
+      for (let i = 0; i < m; i++) want.push(y[i] - (X[i * p] * beta[0] + X[i * p + 1] * beta[1]));
+      expect(madAfterMove(pr(m), beta, old, reach), `rows ${m}, Δβ = (${dc}, ${dm})`).toBe(bruteMad(want));
+    }
+  });
+
+  it('refuses (null) when the windows are too wide to help, so the caller selects directly', () => {
+    const values = randomValues(5, 400, false);
+    const X = new Float64Array(400 * 2);
+    for (let i = 0; i < 400; i++) X[2 * i] = 1;
+    const pr: LinearProblem = { n: 400, p: 2, X, y: values };
+    const old = sortResiduals(pr, Float64Array.from([0, 0]));
+    expect(madAfterMove(pr, Float64Array.from([0.5, 0]), old, 1e6)).toBeNull();
   });
 });
