@@ -32,7 +32,8 @@ import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { buildSums, cloneSums, foldRows, restoreSums, SUMS_REBUILD_GROWTH, sumsResult, type NormalSums } from './fit-session-sums.ts';
 import { dualTest, extendVertex, vertexKept, vertexState, type L1Vertex } from './fit-session-vertex.ts';
 import { extendSorted, madAfterMove, madOfSorted, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
-import { fitTukey } from './tukey.ts';
+import { fitTukey, TUKEY_C, tukeyRho } from './tukey.ts';
+import { buildTukeyKept, refitTukeyKept, type TukeyKept } from './fit-session-tukey.ts';
 import { ESTIMATORS, type Estimator, type FitOptions, type FitResult, type LinearProblem } from './types.ts';
 import { factorNormal } from './weighted-normal.ts';
 
@@ -72,6 +73,8 @@ interface Kept {
   sorted?: SortedResiduals;
   /** Huber: the partition sums of its exact answer (fit-session-huber.ts). */
   huber?: HuberKept;
+  /** Tukey: the moments of its inside set (fit-session-tukey.ts). */
+  tukey?: TukeyKept;
 }
 
 interface Checkpoint {
@@ -251,15 +254,23 @@ class Session implements FitSession {
         return { result: kept.result, n, huber: kept.kept };
       }
     }
+    if (estimator === 'tukey' && prev?.tukey && (options.tuning ?? TUKEY_C) === prev.tukey.c) {
+      const kept = refitTukeyKept(problem, prev.tukey, scale, tukeyRho(prev.tukey.c), l1.result.basis);
+      if (kept) {
+        note(kept.result, 'the inside set and moments kept from the previous tukey fit');
+        return { result: kept.result, n, tukey: kept.kept };
+      }
+    }
     const start = prev && prev.result.status === 'ok' ? prev.result.coefficients : l1.result.coefficients;
     const fitOptions: FitOptions = { ...options, scale, warmStart: { coefficients: start } };
     const result = estimator === 'huber' ? fitHuber(problem, fitOptions) : fitTukey(problem, fitOptions);
     if (l1.result.basis) result.basis = l1.result.basis;
     note(result, `the start is ${start === l1.result.coefficients ? 'its exact L1 fit' : `the previous ${estimator} fit`}`);
-    // Huber's exact answer becomes the base of the kept partition sums (one pass over the rows).
-    const huber = estimator === 'huber' && result.status === 'ok' && result.converged
-      ? buildHuberKept(problem, result.coefficients, scale, options.tuning ?? HUBER_K) : undefined;
-    return huber ? { result, n, huber } : { result, n };
+    // The plain answer becomes the base of the kept sums or moments (one pass over the rows).
+    const done = result.status === 'ok' && result.converged;
+    if (done && estimator === 'huber') return { result, n, huber: buildHuberKept(problem, result.coefficients, scale, options.tuning ?? HUBER_K) };
+    const tukey = done && estimator === 'tukey' ? buildTukeyKept(problem, result.coefficients, scale, options.tuning ?? TUKEY_C) : null;
+    return tukey ? { result, n, tukey } : { result, n };
   }
 
   private minimax(problem: LinearProblem, prev: Kept | undefined, options: FitOptions): Kept {

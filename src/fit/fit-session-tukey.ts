@@ -1,0 +1,402 @@
+// Tukey's biweight M-estimate kept by a fit session: a refit after one more reading by Newton's
+// method on kept polynomial moments, without a pass over the data.
+//
+// Why it works: inside |u| ≤ c (uᵢ = √wᵢrᵢ/s) the biweight's ρ, ψ and ψ′ are polynomials in u
+// (Beaton & Tukey 1974):  ρ = u²/2 − u⁴/(2c²) + u⁶/(6c⁴),  ψ = u − 2u³/c² + u⁵/c⁴,
+// ψ′ = 1 − 6u²/c² + 5u⁴/c⁴; outside, ρ = c²/6 and ψ = ψ′ = 0. With rᵢ = r⁰ᵢ − xᵢᵀδ about a base
+// β⁰ (β = β⁰ + δ), every sum the Newton step needs — Σ√wψ(u)x, Σwψ′(u)xxᵀ and Σρ over the inside
+// readings — is a polynomial in δ whose coefficients are the moments
+//   B(q, e, μ) = Σ_inside w^q·(r⁰)^e·x^μ,   e + |μ| = 2q,  q = 1, 2, 3
+// (binomial expansion of (r⁰ − xᵀδ)^m, multinomial expansion of (xᵀδ)^l). The session keeps those
+// moments (84 + 35 + 10 per row for p = 3); the scale s only enters as the polynomials'
+// coefficients, so a new MAD scale is free. Newton runs on the moments to convergence; what must
+// be proved is that the inside set is the same — as for Huber (fit-session-huber.ts): readings
+// near |u| = c at the base and every reading added since are tested one by one (one that crossed
+// moves in or out of the moments), and a bound over the columns' ranges covers every other one.
+// Tukey's ρ is not convex: the Newton limit must have a positive definite Hessian (a local
+// minimum), and it is the one next to the previous answer, which is what the plain warm refit
+// (irls.ts, Newton from the previous answer) also converges to. Any failure: the plain fitter.
+import { defineCachedField } from './cached-field.ts';
+import { factorLu, solveLu } from './linear-solve.ts';
+import { mEstimateCovariance } from './m-covariance.ts';
+import { residualsOf } from './problem.ts';
+import type { RhoFunction } from './rho-function.ts';
+import type { FitResult, LinearProblem } from './types.ts';
+
+/** Rows added since the base beyond which it is rebuilt. */
+export const TUKEY_KEPT_MAX_ADDED = 512;
+/** Newton steps on the moments before giving up (quadratic convergence needs 2–4 from a warm start). */
+const MAX_NEWTON = 30;
+/** Inside-set corrections before giving up. */
+const MAX_RESOLVES = 20;
+/** Relative step at which Newton on the moments has converged (below the IRLS tolerance of 1e-12). */
+const STEP_TOL = 1e-14;
+/** The bound must stay below this share of the margin (room for rounding of r⁰ and s). */
+const BOUND_SHARE = 0.5;
+
+/** Exponent vectors of the monomials of degree d in p variables, and their index by key. */
+interface Monomials {
+  list: Int8Array[];
+  index: Map<string, number>;
+}
+
+const monomialCache = new Map<string, Monomials>();
+
+function monomials(p: number, d: number): Monomials {
+  const key = `${p}:${d}`;
+  let m = monomialCache.get(key);
+  if (!m) {
+    const list: Int8Array[] = [];
+    const rec = (j: number, left: number, cur: number[]): void => {
+      if (j === p - 1) {
+        list.push(Int8Array.from([...cur, left]));
+        return;
+      }
+      for (let a = left; a >= 0; a--) rec(j + 1, left - a, [...cur, a]);
+    };
+    rec(0, d, []);
+    m = { list, index: new Map(list.map((e, i) => [e.join(','), i])) };
+    monomialCache.set(key, m);
+  }
+  return m;
+}
+
+/** moments[q − 1][e]: B(q, e, μ) for the monomials μ of degree 2q − e. */
+type Moments = Float64Array[][];
+
+function emptyMoments(p: number): Moments {
+  const out: Moments = [];
+  for (let q = 1; q <= 3; q++) {
+    const row: Float64Array[] = [];
+    for (let e = 0; e <= 2 * q; e++) row.push(new Float64Array(monomials(p, 2 * q - e).list.length));
+    out.push(row);
+  }
+  return out;
+}
+
+function copyMoments(m: Moments): Moments {
+  return m.map((row) => row.map((a) => Float64Array.from(a)));
+}
+
+/** Adds (sign = +1) or removes (−1) one inside row's moments. */
+function applyRow(m: Moments, x: ArrayLike<number>, p: number, r0: number, w: number, sign: number): void {
+  // powers[j·7 + k] = x_j^k, k ≤ 6
+  const powers = new Float64Array(p * 7);
+  for (let j = 0; j < p; j++) {
+    powers[j * 7] = 1;
+    for (let k = 1; k <= 6; k++) powers[j * 7 + k] = powers[j * 7 + k - 1] * x[j];
+  }
+  let wq = sign;
+  for (let q = 1; q <= 3; q++) {
+    wq *= w;
+    let re = wq;
+    for (let e = 0; e <= 2 * q; e++) {
+      const { list } = monomials(p, 2 * q - e);
+      const acc = m[q - 1][e];
+      for (let t = 0; t < list.length; t++) {
+        const mu = list[t];
+        let v = re;
+        for (let j = 0; j < p; j++) v *= powers[j * 7 + mu[j]];
+        acc[t] += v;
+      }
+      re *= r0;
+    }
+  }
+}
+
+function factorial(k: number): number {
+  let f = 1;
+  for (let i = 2; i <= k; i++) f *= i;
+  return f;
+}
+
+function binomial(m: number, l: number): number {
+  return factorial(m) / (factorial(l) * factorial(m - l));
+}
+
+/** One term of S(q, m, γ): coefficient × δ^α × B(q, e, ·)[index]. */
+interface PlanTerm {
+  e: number;
+  index: number;
+  coef: number;
+  alpha: Int8Array;
+}
+
+const planCache = new Map<string, PlanTerm[]>();
+
+/**
+ * S(q, m, γ) = Σ_inside w^q x^γ (r⁰ − xᵀδ)^m from the moments:
+ * Σ_l C(m, l)(−1)^l Σ_{|α| = l} (l!/α!) δ^α B(q, m − l, γ + α), with m + |γ| = 2q. The terms
+ * (which moment, which coefficient) depend only on p, q, m and γ: planned once and cached.
+ */
+function plan(p: number, q: number, m: number, gamma: ArrayLike<number>): PlanTerm[] {
+  const key = `${p}:${q}:${m}:${Array.from(gamma).join(',')}`;
+  let terms = planCache.get(key);
+  if (!terms) {
+    terms = [];
+    for (let l = 0; l <= m; l++) {
+      const e = m - l;
+      const target = monomials(p, 2 * q - e);
+      const cl = binomial(m, l) * (l % 2 === 0 ? 1 : -1) * factorial(l);
+      for (const alpha of monomials(p, l).list) {
+        let coef = cl;
+        const mu: number[] = [];
+        for (let j = 0; j < p; j++) {
+          coef /= factorial(alpha[j]);
+          mu.push(gamma[j] + alpha[j]);
+        }
+        terms.push({ e, index: target.index.get(mu.join(',')) as number, coef, alpha });
+      }
+    }
+    planCache.set(key, terms);
+  }
+  return terms;
+}
+
+function polySum(mom: Moments, p: number, q: number, m: number, gamma: ArrayLike<number>, deltaPowers: Float64Array): number {
+  let total = 0;
+  for (const t of plan(p, q, m, gamma)) {
+    let v = t.coef * mom[q - 1][t.e][t.index];
+    for (let j = 0; j < p; j++) v *= deltaPowers[j * 7 + t.alpha[j]];
+    total += v;
+  }
+  return total;
+}
+
+/** F = Σ√wψ(u)x (p), M = Σwψ′(u)xxᵀ (p×p) and the inside Σρ at δ, scale s, tuning c. */
+function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: number): { F: Float64Array; M: Float64Array; rho: number } {
+  const c2 = c * c;
+  const F = new Float64Array(p);
+  const M = new Float64Array(p * p);
+  const g = new Array<number>(p).fill(0);
+  // δⱼ^k for k ≤ 6, shared by every polynomial below.
+  const dp = new Float64Array(p * 7);
+  for (let j = 0; j < p; j++) {
+    dp[j * 7] = 1;
+    for (let k = 1; k <= 6; k++) dp[j * 7 + k] = dp[j * 7 + k - 1] * delta[j];
+  }
+  for (let j = 0; j < p; j++) {
+    g[j] = 1;
+    F[j] = polySum(mom, p, 1, 1, g, dp) / s - (2 * polySum(mom, p, 2, 3, g, dp)) / (c2 * s ** 3) + polySum(mom, p, 3, 5, g, dp) / (c2 * c2 * s ** 5);
+    for (let k = j; k < p; k++) {
+      g[k] += 1;
+      const v = polySum(mom, p, 1, 0, g, dp) - (6 * polySum(mom, p, 2, 2, g, dp)) / (c2 * s * s) + (5 * polySum(mom, p, 3, 4, g, dp)) / (c2 * c2 * s ** 4);
+      M[j * p + k] = v;
+      M[k * p + j] = v;
+      g[k] -= 1;
+    }
+    g[j] = 0;
+  }
+  const rho = polySum(mom, p, 1, 2, g, dp) / (2 * s * s) - polySum(mom, p, 2, 4, g, dp) / (2 * c2 * s ** 4) + polySum(mom, p, 3, 6, g, dp) / (6 * c2 * c2 * s ** 6);
+  return { F, M, rho };
+}
+
+/** Positive definite by Cholesky (a local minimum of Σρ, whose Hessian is M/s²). */
+function positiveDefinite(M: Float64Array, p: number): boolean {
+  const L = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    for (let k = 0; k <= j; k++) {
+      let v = M[j * p + k];
+      for (let t = 0; t < k; t++) v -= L[j * p + t] * L[k * p + t];
+      if (j === k) {
+        if (!(v > 0)) return false;
+        L[j * p + j] = Math.sqrt(v);
+      } else L[j * p + k] = v / L[k * p + k];
+    }
+  }
+  return true;
+}
+
+export interface TukeyKept {
+  readonly c: number;
+  readonly base: Float64Array;
+  readonly s0: number;
+  readonly margin: number;
+  readonly colAbsMax: Float64Array;
+  readonly sqrtWMax: number;
+  readonly listed: Int32Array;
+  /** 1 inside (in the moments), 0 outside. */
+  readonly inside: Uint8Array;
+  readonly moments: Moments;
+  readonly insideCount: number;
+  /** δ of the last answer (the next Newton start). */
+  readonly delta: Float64Array;
+  readonly rows: number;
+  readonly baseRows: number;
+}
+
+/** Half-width of the listed band around |u| = c, in scale units (as keptMargin in fit-session-huber.ts). */
+export function tukeyKeptMargin(n: number, p: number): number {
+  return Math.max(0.005, 2 * Math.sqrt(p / n));
+}
+
+function sqrtWeight(problem: LinearProblem, i: number): number {
+  return problem.weights ? Math.sqrt(problem.weights[i]) : 1;
+}
+
+function residualAt(problem: LinearProblem, i: number, beta: ArrayLike<number>): number {
+  const { p, X, y } = problem;
+  let f = 0;
+  for (let j = 0; j < p; j++) f += X[i * p + j] * beta[j];
+  return y[i] - f;
+}
+
+/** The base: one pass at the plain fitter's answer β⁰ and its scale s⁰ (the degree models, p ≤ 3). */
+export function buildTukeyKept(problem: LinearProblem, beta: Float64Array, s0: number, c: number): TukeyKept | null {
+  const { n, p, X } = problem;
+  if (p > 3) return null;
+  const moments = emptyMoments(p);
+  const margin = tukeyKeptMargin(n, p);
+  const colAbsMax = new Float64Array(p);
+  let sqrtWMax = 0;
+  const listed: number[] = [];
+  const flags: number[] = [];
+  let insideCount = 0;
+  for (let i = 0; i < n; i++) {
+    const sw = sqrtWeight(problem, i);
+    sqrtWMax = Math.max(sqrtWMax, sw);
+    const x = X.subarray(i * p, i * p + p);
+    for (let j = 0; j < p; j++) colAbsMax[j] = Math.max(colAbsMax[j], Math.abs(x[j]));
+    const r0 = residualAt(problem, i, beta);
+    const a = Math.abs((sw * r0) / s0);
+    const inside = a <= c;
+    if (inside) {
+      applyRow(moments, x, p, r0, sw * sw, 1);
+      insideCount++;
+    }
+    if (Math.abs(a - c) < margin) {
+      listed.push(i);
+      flags.push(inside ? 1 : 0);
+    }
+  }
+  return {
+    c, base: Float64Array.from(beta), s0, margin, colAbsMax, sqrtWMax, listed: Int32Array.from(listed), inside: Uint8Array.from(flags),
+    moments, insideCount, delta: new Float64Array(p), rows: n, baseRows: n,
+  };
+}
+
+/** Newton on the moments from δ; null when it does not converge to a local minimum. */
+function newton(mom: Moments, p: number, start: Float64Array, base: Float64Array, s: number, c: number): { delta: Float64Array; steps: number; rho: number; M: Float64Array } | null {
+  const delta = Float64Array.from(start);
+  for (let it = 1; it <= MAX_NEWTON; it++) {
+    const { F, M, rho } = evaluate(mom, p, delta, s, c);
+    const f = factorLu(M, p);
+    if (f.singular || !positiveDefinite(M, p)) return null;
+    // F(β) = Σ√wψx = 0; ∂F/∂β = −M/s, so the Newton step is δ += s·M⁻¹F.
+    const step = solveLu(f, F);
+    let change = 0;
+    for (let j = 0; j < p; j++) {
+      delta[j] += s * step[j];
+      change = Math.max(change, Math.abs(s * step[j]) / Math.max(Math.abs(base[j] + delta[j]), s));
+    }
+    if (change <= STEP_TOL) return { delta, steps: it, rho, M };
+  }
+  return null;
+}
+
+/** The exact biweight estimate at scale s from the kept moments, with the next state; null: the plain fitter decides. */
+export function refitTukeyKept(problem: LinearProblem, kept: TukeyKept, s: number, rho: RhoFunction, basis: Int32Array | undefined): { result: FitResult; kept: TukeyKept } | null {
+  const { n, p, X } = problem;
+  const { c, base, s0, margin } = kept;
+  if (rho.tuning !== c || n < kept.rows || n - kept.baseRows > TUKEY_KEPT_MAX_ADDED) return null;
+  const moments = copyMoments(kept.moments);
+  const colAbsMax = Float64Array.from(kept.colAbsMax);
+  let sqrtWMax = kept.sqrtWMax;
+  const listed = new Int32Array(kept.listed.length + n - kept.rows);
+  listed.set(kept.listed);
+  const inside = new Uint8Array(listed.length);
+  inside.set(kept.inside);
+  let insideCount = kept.insideCount;
+  const prevBeta = new Float64Array(p);
+  for (let j = 0; j < p; j++) prevBeta[j] = base[j] + kept.delta[j];
+  for (let i = kept.rows, at = kept.listed.length; i < n; i++, at++) {
+    const sw = sqrtWeight(problem, i);
+    sqrtWMax = Math.max(sqrtWMax, sw);
+    const x = X.subarray(i * p, i * p + p);
+    for (let j = 0; j < p; j++) colAbsMax[j] = Math.max(colAbsMax[j], Math.abs(x[j]));
+    listed[at] = i;
+    if (Math.abs((sw * residualAt(problem, i, prevBeta)) / s) <= c) {
+      applyRow(moments, x, p, residualAt(problem, i, base), sw * sw, 1);
+      inside[at] = 1;
+      insideCount++;
+    }
+  }
+  let solved: ReturnType<typeof newton> = null;
+  let start = kept.delta;
+  let resolves = 0;
+  let moved = 0;
+  const beta = new Float64Array(p);
+  for (;;) {
+    solved = newton(moments, p, start, base, s, c);
+    if (!solved) return null;
+    for (let j = 0; j < p; j++) beta[j] = base[j] + solved.delta[j];
+    let changed = false;
+    for (let t = 0; t < listed.length; t++) {
+      const i = listed[t];
+      const sw = sqrtWeight(problem, i);
+      const now = Math.abs((sw * residualAt(problem, i, beta)) / s) <= c ? 1 : 0;
+      if (now !== inside[t]) {
+        applyRow(moments, X.subarray(i * p, i * p + p), p, residualAt(problem, i, base), sw * sw, now ? 1 : -1);
+        insideCount += now ? 1 : -1;
+        inside[t] = now;
+        changed = true;
+        moved++;
+      }
+    }
+    if (!changed) break;
+    if (++resolves > MAX_RESOLVES) return null;
+    start = solved.delta;
+  }
+  let reach = 0;
+  for (let j = 0; j < p; j++) reach += colAbsMax[j] * Math.abs(solved.delta[j]);
+  const bound = sqrtWMax * reach + c * Math.abs(s - s0);
+  if (!(bound < BOUND_SHARE * margin * s0)) return null;
+  const coefficients = Float64Array.from(beta);
+  const objective = solved.rho + ((c * c) / 6) * (n - insideCount);
+  const result: FitResult = {
+    estimator: 'tukey',
+    status: 'ok',
+    coefficients,
+    residuals: new Float64Array(0),
+    objective,
+    scale: s,
+    iterations: solved.steps,
+    converged: true,
+    reason: `tukey (tuning ${c}) at the fixed scale ${s.toPrecision(6)}: Newton on the fit session's kept moments, ${solved.steps} steps to a ` +
+      `relative step ≤ ${STEP_TOL.toExponential(0)} at a local minimum (positive definite Hessian); the ${listed.length} readings near ±${c} or added since ` +
+      `were tested one by one (${moved} moved in or out), every other reading provably kept its side (|Δu| ≤ ${(bound / s0).toExponential(1)} < ${margin.toPrecision(2)})`,
+    robustWeights: new Float64Array(0),
+  };
+  if (basis) result.basis = basis;
+  defineCachedField(result, 'residuals', () => residualsOf(problem, coefficients));
+  defineCachedField(result, 'robustWeights', () => {
+    const r = result.residuals;
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) out[i] = rho.weight((sqrtWeight(problem, i) * r[i]) / s);
+    return out;
+  });
+  // The covariance's sums (Σψ′, Σψ′², Σψ²) need polynomials of degree 8 and 10: one pass when first read.
+  defineCachedField(result, 'covariance', () => {
+    const r = result.residuals;
+    let sumD = 0;
+    let sumD2 = 0;
+    let sumPsi2 = 0;
+    for (let i = 0; i < n; i++) {
+      const u = (sqrtWeight(problem, i) * r[i]) / s;
+      if (Math.abs(u) > c) continue;
+      const qq = (u * u) / (c * c);
+      const t = 1 - qq;
+      const h = t * (1 - 5 * qq);
+      const ps = u * t * t;
+      sumD += h;
+      sumD2 += h * h;
+      sumPsi2 += ps * ps;
+    }
+    const cov = mEstimateCovariance(problem, s, sumD, sumD2, sumPsi2);
+    return cov ? cov() : undefined;
+  });
+  return {
+    result,
+    kept: { c, base, s0, margin, colAbsMax, sqrtWMax, listed, inside, moments, insideCount, delta: Float64Array.from(solved.delta), rows: n, baseRows: kept.baseRows },
+  };
+}
