@@ -170,8 +170,8 @@ export function refitHuberKept(problem: LinearProblem, kept: HuberKept, s: numbe
   listed.set(kept.listed);
   const sides = new Int8Array(listed.length);
   sides.set(kept.sides);
-  // New rows join the sums on the side the previous answer (base + previous δ) gives them; the
-  // side loop below corrects any that is wrong.
+  // New rows join the sums on the side the base β⁰ gives them at the new scale; the side loop
+  // below moves any that is wrong.
   for (let i = kept.rows, at = kept.listed.length; i < n; i++, at++) {
     const sw = sqrtWeight(problem, i);
     sqrtWMax = Math.max(sqrtWMax, sw);

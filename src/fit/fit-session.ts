@@ -247,9 +247,9 @@ class Session implements FitSession {
     const note = (result: FitResult, start: string): void => {
       result.reason += `; fit session: ${start}, the scale the MAD of its exact L1 fit of these ${n} rows (${how})`;
     };
-    if (estimator === 'huber' && prev?.huber) {
+    if (estimator === 'huber' && prev?.huber && (options.tuning ?? HUBER_K) === prev.huber.k) {
       const kept = refitHuberKept(problem, prev.huber, scale, huberRho(prev.huber.k), l1.result.basis);
-      if (kept && (options.tuning ?? HUBER_K) === prev.huber.k) {
+      if (kept) {
         note(kept.result, 'the partition kept from the previous huber fit');
         return { result: kept.result, n, huber: kept.kept };
       }
