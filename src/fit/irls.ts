@@ -17,7 +17,7 @@ import { interceptColumn, noSolution, residualsOf, residualsRange, validateProbl
 import { assertProblemShape } from './simplex-problem.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
 import { madScale } from './robust-scale.ts';
-import { fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
+import { fusedEvaluate, fusedPass, fusedPassApplies } from './irls-fused-pass.ts';
 import { createHuberBand, HUBER_BAND_MIN_ROWS, settleHuberPartition, type HuberBand, type SettledPartition } from './huber-active-set.ts';
 import type { RhoFunction, SweepState } from './rho-function.ts';
 import { scratchFloat64 } from './scratch.ts';
@@ -189,7 +189,8 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
       const settled = settleHuberPartition(rho.tuning, s, wsNewton, listing, out.sumD, IRLS_MIN_PIVOT);
       if (settled) {
         for (let j = 0; j < p; j++) beta[j] += settled.delta[j];
-        fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, false, ws, false, out);
+        // Only the outputs at β are read (a mismatch below starts a fresh pass): no normal equations.
+        fusedEvaluate(problem, rho, beta, s, out.residuals, out.robustWeights, ws, out);
         stop.iterations++;
         stop.newtonSteps++;
         // The pass at β counts the readings inside ±k: it must be the settled partition's count
@@ -275,7 +276,7 @@ export function irls(problem: LinearProblem, rho: RhoFunction, start: IrlsStart,
   }
   // The returned residuals, weights and Σρ belong to the returned β.
   if (!outputsCurrent) {
-    if (fused) fusedPass(problem, rho, beta, s, out.residuals, out.robustWeights, false, ws, false, out);
+    if (fused) fusedEvaluate(problem, rho, beta, s, out.residuals, out.robustWeights, ws, out);
     else chunk.sweep(rho, beta, s, out, null, null, false);
   }
   return finish(problem, rho, start, beta, out, stop, intercept);
