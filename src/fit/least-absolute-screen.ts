@@ -34,8 +34,6 @@ export interface FullScreen extends ScreenResult {
   pinnedAbs: number;
   /** Σ (√wᵢ xᵢⱼ)² per column over all rows: column norms for the rank proof and rounding bounds. */
   colSq: Float64Array;
-  /** max over all rows of wᵢ·xᵢQxᵢᵀ: the largest leverage, bounding every row's residual move. */
-  maxLeverage: number;
 }
 
 /**
@@ -56,7 +54,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
   const colSq = new Float64Array(p);
   let pinnedAbs = 0;
   let sideSum = 0;
-  let maxLeverage = 0;
   const Q = band.rawQ;
   const scale = band.scale;
   const floor = band.floor;
@@ -80,7 +77,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         const r = y[i] - b0 * x0 - b1 * x1;
         const sg = 1 - 2 * +(r < 0);
         const lev = x0 * (q00 * x0 + q01 * x1) + q11 * x1 * x1;
-        maxLeverage = Math.max(maxLeverage, lev);
         s0 += sg * x0;
         s1 += sg * x1;
         c0 += x0 * x0;
@@ -126,7 +122,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         const r = y[i] - b0 * x0 - b1 * x1 - b2 * x2;
         const sg = 1 - 2 * +(r < 0);
         const lev = x0 * (q00 * x0 + q01 * x1 + q02 * x2) + x1 * (q11 * x1 + q12 * x2) + q22 * x2 * x2;
-        maxLeverage = Math.max(maxLeverage, lev);
         s0 += sg * x0;
         s1 += sg * x1;
         s2 += sg * x2;
@@ -171,7 +166,6 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
           lev += xj * t;
           colSq[j] += s * s * xj * xj;
         }
-        maxLeverage = Math.max(maxLeverage, s * s * lev);
         const r = y[i] - f;
         const rho = s * r;
         const sg = 1 - 2 * +(r < 0);
@@ -204,7 +198,7 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
   const pinnedCount = n - count;
   return {
     kept: buf.rows, keptCount: count, pinnedSum: pinned, above: (pinnedCount + sideSum) / 2, below: (pinnedCount - sideSum) / 2,
-    keptX: buf.X, keptY: buf.y, keptS: buf.s, pinnedAbs, colSq, maxLeverage,
+    keptX: buf.X, keptY: buf.y, keptS: buf.s, pinnedAbs, colSq,
   };
 }
 
