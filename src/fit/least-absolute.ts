@@ -28,6 +28,7 @@ import { bandFromSubsample, bandHalfWidth, inverseGram, makeBand, widen, withRou
 import { certify, finalPass, ROW_ZERO_EPS, type Certificate, type FinalPass } from './least-absolute-certificate.ts';
 import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult, type DescentStart } from './least-absolute-descent.ts';
 import { proveByBand, type BandProof } from './least-absolute-proof.ts';
+import { vertexSides, type VertexSides } from './least-absolute-vertex-sides.ts';
 import { screenRows, type FullScreen } from './least-absolute-screen.ts';
 import { fitSubsample, leastSquaresStart, positionsIn, binarySearch, type SubsampleOptions } from './least-absolute-subsample.ts';
 import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoefficients, type ColumnFrame } from './simplex-frame.ts';
@@ -82,6 +83,9 @@ interface Context {
   iterations: number;
   cap: number | undefined;
   notes: string[];
+  /** Whether the caller wants the vertex's side sum (fitLeastAbsoluteWithSides). */
+  wantSides: boolean;
+  sides: VertexSides | null;
 }
 
 interface Seed {
@@ -94,11 +98,32 @@ interface Seed {
 }
 
 export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {}): FitResult {
+  return solve(problem, options, false).result;
+}
+
+/**
+ * The fit and, when the screened route proved it by the band (a warm refit at n > DIRECT_MAX_ROWS
+ * nearly always), the side sum g of the returned vertex over all rows with its rounding bound
+ * (least-absolute-vertex-sides.ts); null otherwise. For a fit session's vertex state: it saves
+ * the pass that would recompute g.
+ */
+export function fitLeastAbsoluteWithSides(problem: LinearProblem, options: FitOptions = {}): { result: FitResult; sides: VertexSides | null } {
+  return solve(problem, options, true);
+}
+
+function solve(problem: LinearProblem, options: FitOptions, wantSides: boolean): { result: FitResult; sides: VertexSides | null } {
+  const ctx: Context = { problem, iterations: 0, cap: options.maxIterations, notes: [], wantSides, sides: null };
+  const result = solveIn(ctx, options);
+  return { result, sides: result.status === 'ok' ? ctx.sides : null };
+}
+
+function solveIn(ctx: Context, options: FitOptions): FitResult {
+  const { problem } = ctx;
   assertProblemShape(problem);
   const { n, p } = problem;
   if (n < p) return unsolved('least-absolute', problem, 'too-few-rows', `${n} rows for ${p} parameters: least absolute deviations needs n ≥ p`);
   const warm = vetWarmStart(problem, options.warmStart, p);
-  const ctx: Context = { problem, iterations: 0, cap: options.maxIterations, notes: warm.note ? [warm.note] : [] };
+  if (warm.note) ctx.notes.push(warm.note);
   const screened = n > DIRECT_MAX_ROWS;
   const m0 = !screened ? n : warm.coefficients ? Math.min(n, WARM_SAMPLE_ROWS)
     : Math.min(n, Math.max(MIN_SUBSAMPLE_ROWS, Math.round(SUBSAMPLE_FACTOR * (p * n) ** (2 / 3))));
@@ -148,6 +173,7 @@ export function fitLeastAbsolute(problem: LinearProblem, options: FitOptions = {
       `pinned ${screen.above} above and ${screen.below} below` + (round > 1 ? `; ${round} rounds` : '');
     const proof = proveByBand(problem, roundFrame, band, cp, res, screen);
     if (proof.ok || res.status === 'iteration-cap') {
+      if (proof.ok && ctx.wantSides) ctx.sides = vertexSides(screen, res.sign, n, p);
       return finishProven(ctx, problem, betaStar, basisRows, beta, screen, res, proof,
         res.status === 'iteration-cap' ? `descent stopped at its iteration cap; ${detail}` : detail, warm.coefficients !== null);
     }

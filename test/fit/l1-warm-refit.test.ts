@@ -5,10 +5,10 @@
 // returned vertex proves its objective is the LP optimum, the objective is recomputed there
 // (objectiveAt), and the cold fit of the same rows must reach the same optimum.
 import { describe, expect, it } from 'vitest';
-import { fitLeastAbsolute } from '../../src/fit/least-absolute.ts';
+import { fitLeastAbsolute, fitLeastAbsoluteWithSides } from '../../src/fit/least-absolute.ts';
 import type { LinearProblem } from '../../src/fit/types.ts';
 import { within } from '../helpers/within.ts';
-import { degreeRows, kktDual, objectiveAt, seeded } from './least-absolute-reference.ts';
+import { degreeRows, kktDual, objectiveAt, seeded, solve, sw } from './least-absolute-reference.ts';
 
 /** Relative agreement promised for objectives by different exact routes (the 1e-9 of the brief, far above rounding). */
 const OBJECTIVE_REL = 1e-9;
@@ -69,5 +69,42 @@ describe('warm L1 refit after 1, 2, 5 more readings at n ≈ 10⁴ (screened rou
         expect(Number.isFinite(warm.scale) && warm.scale > 0).toBe(true);
       });
     }
+  }
+});
+
+describe('the side sum g of a warm refit\'s vertex, handed out without a pass (fitLeastAbsoluteWithSides)', () => {
+  for (const { p, weighted, seed } of [{ p: 2, weighted: false, seed: 51 }, { p: 3, weighted: true, seed: 52 }]) {
+    it(`p = ${p}${weighted ? ', weighted' : ''}, 2 rows added, seed ${seed}: g equals Σ_{i∉B} sign(rᵢ)√wᵢxᵢ summed here`, () => {
+      const n = 10_002;
+      const all = withOutlierTail(degreeRows(n, p, seed, weighted), 2, seed + 1000);
+      const before = fitLeastAbsolute(head(all, n - 2));
+      const { result, sides } = fitLeastAbsoluteWithSides(all, { warmStart: { coefficients: before.coefficients, basis: before.basis } });
+      expect(result.converged, result.reason).toBe(true);
+      expect(sides, 'the band proof held, so g comes with the result').not.toBeNull();
+      if (!sides) return;
+      const basis = new Set(Array.from(result.basis ?? []));
+      // The reference: signs of yᵢ − xᵢβ at the returned β, plain sums with their own bound n·ε·Σ|aᵢⱼ|.
+      const g = new Array<number>(p).fill(0);
+      const abs = new Array<number>(p).fill(0);
+      for (let i = 0; i < n; i++) {
+        if (basis.has(i)) continue;
+        let f = 0;
+        for (let j = 0; j < p; j++) f += all.X[i * p + j] * result.coefficients[j];
+        const s = all.y[i] - f > 0 ? 1 : -1;
+        for (let j = 0; j < p; j++) {
+          g[j] += s * sw(all, i) * all.X[i * p + j];
+          abs[j] += Math.abs(sw(all, i) * all.X[i * p + j]);
+        }
+      }
+      for (let j = 0; j < p; j++) {
+        within(sides.g[j], g[j], sides.gErr[j] + n * Number.EPSILON * abs[j], '√w·x', `g[${j}]`, { source: 'Σ_{i∉B} sign(rᵢ)√wᵢxᵢ summed in this test' });
+        expect(sides.gErr[j]).toBeLessThan(1e-9 * abs[j]);
+      }
+      // And it proves the vertex: max|u| with A_Bᵀu = −g, solved here (reference elimination).
+      const B = Array.from(result.basis ?? []);
+      const u = solve(Array.from({ length: p }, (_, j) => B.map((i) => sw(all, i) * all.X[i * p + j])), Array.from(sides.g, (v) => -v));
+      expect(u).not.toBeNull();
+      expect(Math.max(...(u ?? [Infinity]).map(Math.abs))).toBeLessThanOrEqual(1 + DUAL_SLACK);
+    });
   }
 });
