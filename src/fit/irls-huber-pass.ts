@@ -19,8 +19,7 @@ const EMPTY = new Float64Array(0);
 /**
  * Huber pass for p = 2: residuals (computed unless `ready`), robust weights, Σρ, Σψ², Σψ′, the
  * side-change flag, and into `ws` the normal equations (G with ψ′ for `newton`, with v
- * otherwise; b = Σ v·r·z). With a band, lists the rows with ||u| − k| < band.margin and sets
- * the band's column ranges.
+ * otherwise; b = Σ v·r·z). With a band, lists the rows with ||u| − k| < band.margin.
  */
 export function huberPass2(problem: LinearProblem, k: number, beta: Float64Array, inv: number, residuals: Float64Array,
   weights: Float64Array, ready: boolean, ws: NormalWorkspace, newton: boolean, out: FusedSums, band: HuberBand | null): void {
@@ -35,10 +34,6 @@ export function huberPass2(problem: LinearProblem, k: number, beta: Float64Array
   const bx = band ? band.x : EMPTY, br = band ? band.r : EMPTY;
   const capacity = br.length;
   let listed = 0;
-  // The band's column box (huber-active-set.ts) from the rows this pass reads anyway: a separate
-  // read of X for it cost 5–8 ms at n = 10⁶. `ranges` is loop-invariant (always predicted).
-  const ranges = band !== null;
-  let lo0 = Infinity, hi0 = -Infinity, lo1 = Infinity, hi1 = -Infinity;
   let g00 = 0, g01 = 0, g11 = 0, b0 = 0, b1 = 0;
   let objective = 0, sumPsi2 = 0, inside = 0, changed = 0;
   for (let i = 0, o = 0; i < n; i++, o += 2) {
@@ -68,10 +63,6 @@ export function huberPass2(problem: LinearProblem, k: number, beta: Float64Array
       }
       listed++;
     }
-    if (ranges) {
-      lo0 = Math.min(lo0, x0); hi0 = Math.max(hi0, x0);
-      lo1 = Math.min(lo1, x1); hi1 = Math.max(hi1, x1);
-    }
     const z0 = (x0 - s0) * d0, z1 = (x1 - s1) * d1;
     const g = nf * h + vf * v;
     const gz0 = g * z0, gz1 = g * z1, vr = v * r;
@@ -80,9 +71,6 @@ export function huberPass2(problem: LinearProblem, k: number, beta: Float64Array
   }
   gram[0] = g00; gram[1] = g01; gram[2] = 0; gram[3] = g11;
   rhs[0] = b0; rhs[1] = b1;
-  if (band) {
-    band.colMin[0] = lo0; band.colMax[0] = hi0; band.colMin[1] = lo1; band.colMax[1] = hi1;
-  }
   finishHuber(out, band, listed, objective, changed, sumPsi2, inside);
 }
 
@@ -98,8 +86,6 @@ export function huberPass3(problem: LinearProblem, k: number, beta: Float64Array
   const bx = band ? band.x : EMPTY, br = band ? band.r : EMPTY;
   const capacity = br.length;
   let listed = 0;
-  const ranges = band !== null;
-  let lo0 = Infinity, hi0 = -Infinity, lo1 = Infinity, hi1 = -Infinity, lo2 = Infinity, hi2 = -Infinity;
   let g00 = 0, g01 = 0, g02 = 0, g11 = 0, g12 = 0, g22 = 0, b0 = 0, b1 = 0, b2 = 0;
   let objective = 0, sumPsi2 = 0, inside = 0, changed = 0;
   for (let i = 0, o = 0; i < n; i++, o += 3) {
@@ -129,11 +115,6 @@ export function huberPass3(problem: LinearProblem, k: number, beta: Float64Array
       }
       listed++;
     }
-    if (ranges) {
-      lo0 = Math.min(lo0, x0); hi0 = Math.max(hi0, x0);
-      lo1 = Math.min(lo1, x1); hi1 = Math.max(hi1, x1);
-      lo2 = Math.min(lo2, x2); hi2 = Math.max(hi2, x2);
-    }
     const z0 = (x0 - s0) * d0, z1 = (x1 - s1) * d1, z2 = (x2 - s2) * d2;
     const g = nf * h + vf * v;
     const gz0 = g * z0, gz1 = g * z1, gz2 = g * z2, vr = v * r;
@@ -142,9 +123,6 @@ export function huberPass3(problem: LinearProblem, k: number, beta: Float64Array
   }
   gram[0] = g00; gram[1] = g01; gram[2] = g02; gram[3] = 0; gram[4] = g11; gram[5] = g12; gram[6] = 0; gram[7] = 0; gram[8] = g22;
   rhs[0] = b0; rhs[1] = b1; rhs[2] = b2;
-  if (band) {
-    band.colMin[0] = lo0; band.colMax[0] = hi0; band.colMin[1] = lo1; band.colMax[1] = hi1; band.colMin[2] = lo2; band.colMax[2] = hi2;
-  }
   finishHuber(out, band, listed, objective, changed, sumPsi2, inside);
 }
 
