@@ -33,11 +33,13 @@ export interface Band {
 
 /** G⁻¹ of m compact rows (G = AᵀA/m), or null when singular. */
 export function inverseGram(A: Float64Array, m: number, p: number): Float64Array | null {
-  const G = new Float64Array(p * p);
-  for (let i = 0; i < m; i++) {
-    for (let j = 0; j < p; j++) {
-      const a = A[i * p + j];
-      for (let k = 0; k < p; k++) G[j * p + k] += a * A[i * p + k];
+  const G = p === 3 ? gram3(A, m) : new Float64Array(p * p);
+  if (p !== 3) {
+    for (let i = 0; i < m; i++) {
+      for (let j = 0; j < p; j++) {
+        const a = A[i * p + j];
+        for (let k = 0; k < p; k++) G[j * p + k] += a * A[i * p + k];
+      }
     }
   }
   for (let k = 0; k < p * p; k++) G[k] /= m;
@@ -46,6 +48,24 @@ export function inverseGram(A: Float64Array, m: number, p: number): Float64Array
   const inv = inverseFromLu(f);
   for (let k = 0; k < p * p; k++) if (!Number.isFinite(inv[k])) return null;
   return inv;
+}
+
+/**
+ * AᵀA for p = 3 with the six distinct sums in locals: the generic loop adds into the p×p array
+ * in memory, a store and reload per term, and was ~40 ns a row (a third of a warm refit's sample work).
+ */
+function gram3(A: Float64Array, m: number): Float64Array {
+  let g00 = 0, g01 = 0, g02 = 0, g11 = 0, g12 = 0, g22 = 0;
+  for (let i = 0; i < m; i++) {
+    const a0 = A[3 * i], a1 = A[3 * i + 1], a2 = A[3 * i + 2];
+    g00 += a0 * a0;
+    g01 += a0 * a1;
+    g02 += a0 * a2;
+    g11 += a1 * a1;
+    g12 += a1 * a2;
+    g22 += a2 * a2;
+  }
+  return Float64Array.of(g00, g01, g02, g01, g11, g12, g02, g12, g22);
 }
 
 /** ã G⁻¹ ãᵀ for compact row i. */

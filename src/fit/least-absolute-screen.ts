@@ -40,8 +40,8 @@ export interface FullScreen extends ScreenResult {
  * The screening pass over all n rows at β with `band`, doing in the same stream everything the
  * certificate needs from the full data (least-absolute.ts): the pinned sum (blocks of SCREEN_BLOCK
  * rows summed plainly, blocks combined with TwoSum, as in least-absolute-certificate.ts), the
- * pinned rows' Σ|ρ|, column norms, the largest leverage, and a copy of each kept row. Branch-free on the side (s = 1 − 2·[ρ < 0]; `+(bool)` compiles
- * to a set-on-condition): every row adds s·aᵢ to the block sum and kept rows (a few per cent,
+ * pinned rows' Σ|ρ|, column norms and a copy of each kept row. Branch-free on the side
+ * (s = 1 − 2·[ρ < 0]; `+(bool)` compiles to a set-on-condition): every row adds s·aᵢ to the block sum and kept rows (a few per cent,
  * a well-predicted branch) take it back out; a branch on the random side would mispredict half
  * the time and cost several times the pass.
  */
