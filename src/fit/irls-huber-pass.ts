@@ -6,7 +6,8 @@
 // unpredictable for ~20 % of the rows (5 % outliers plus the normal tails beyond 1.345), and the
 // branchy loop cost 8.9 ns/row against 7.3 at n = 10⁴ (p = 2, Newton plan, same process).
 // One function per p, each called with one shape only: the generic loop (`p === 3 ?` per row, a
-// band argument sometimes null) ran 10 ns/row at n = 10⁴ but 17–37 at 10⁶, process to process.
+// band argument sometimes null) ran 10 ns/row at n = 10⁴ but 17–37 at 10⁶, process to process;
+// these run 10–11 (p = 2) and 13–14 (p = 3) at both sizes (same process, interleaved, medians).
 // Huber's "did any reading change side" is read from the previous pass's weight (exactly 1
 // inside), as an integer OR: no side array, no branch.
 import type { HuberBand } from './huber-active-set.ts';
@@ -129,6 +130,7 @@ export function huberPass3(problem: LinearProblem, k: number, beta: Float64Array
 /**
  * The evaluation pass (no normal equations): residuals, weights and the sums at β only — the
  * pass after the active-set finish and the final pass, whose equations nobody reads. p = 2 or 3.
+ * Measured: 6–7 ns/row at n = 10⁴ and 8–11 at 10⁶, against 12–17 for the old pass doing the same.
  */
 export function huberEvaluate(problem: LinearProblem, k: number, beta: Float64Array, inv: number, residuals: Float64Array,
   weights: Float64Array, out: FusedSums): void {
