@@ -53,6 +53,10 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
   const blockSum = new Float64Array(p);
   const colSq = new Float64Array(p);
   let pinnedAbs = 0;
+  // The unrolled loops note kept rows here and copy them after each block (the rows are still in
+  // cache): a method call inside the loop made the compiler keep its accumulators in memory
+  // around the call, ~7 % of the pass at n = 10⁴.
+  const blockKept = new Int32Array(SCREEN_BLOCK);
   let sideSum = 0;
   const Q = band.rawQ;
   const scale = band.scale;
@@ -60,6 +64,7 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
   for (let start = 0; start < n; start += SCREEN_BLOCK) {
     const end = Math.min(n, start + SCREEN_BLOCK);
     let absBlock = 0;
+    let nk = 0;
     if (p === 2 && !weights) {
       // The degree model, unweighted: the bulk of every large fit, unrolled.
       const b0 = beta[0];
@@ -91,7 +96,7 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
           s1 -= sg * x1;
           sideSum -= sg;
           absBlock -= a;
-          buf.push(X, y, i, 1);
+          blockKept[nk++] = i;
         }
       }
       blockSum[0] = s0;
@@ -138,7 +143,7 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
           s2 -= sg * x2;
           sideSum -= sg;
           absBlock -= a;
-          buf.push(X, y, i, 1);
+          blockKept[nk++] = i;
         }
       }
       blockSum[0] = s0;
@@ -181,6 +186,7 @@ export function screenRows(problem: LinearProblem, beta: Float64Array, band: Ban
         }
       }
     }
+    for (let k = 0; k < nk; k++) buf.push(X, y, blockKept[k], 1);
     // A non-finite value makes its residual ±∞ or NaN, and so the block's Σ|r| (kept rows are
     // taken out, ∞ − ∞ is NaN): one test per block, the culprit found only then.
     if (!Number.isFinite(absBlock)) throw nonFiniteIn(problem, beta, start, end);
