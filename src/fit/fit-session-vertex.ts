@@ -5,6 +5,7 @@ import { GAP_TOL, ROW_ZERO_EPS } from './least-absolute-certificate.ts';
 import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
 import { residualsOf } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
+import type { VertexSides } from './least-absolute-vertex-sides.ts';
 import type { FitResult, LinearProblem } from './types.ts';
 
 /**
@@ -15,7 +16,8 @@ import type { FitResult, LinearProblem } from './types.ts';
  * appended rows never accumulates rounding. A row whose residual is zero to rounding (as the
  * certificate decides it) may take any side in [−1, 1]; it is given 0 here. Any choice in [−1, 1]
  * is a valid subgradient, so a passing test proves optimality; a failing one only costs the
- * plain refit.
+ * plain refit. After a screened warm refit the state starts from the fitter's own g and its
+ * rounding bound (least-absolute-vertex-sides.ts) instead of a pass over the rows.
  */
 export interface L1Vertex {
   beta: Float64Array;
@@ -25,8 +27,10 @@ export interface L1Vertex {
   invNorm: number;
   g: Float64Array;
   comp: Float64Array;
-  /** Σ|aᵢⱼ| over the summed rows, for the rounding bound. */
+  /** Σ|aᵢⱼ| over the rows summed here by TwoSum, for the rounding bound. */
   absSum: Float64Array;
+  /** A fixed per-column bound on the error of the g the state started from (0 when summed here). */
+  gErr0: Float64Array;
 }
 
 /**
@@ -75,8 +79,11 @@ function addSideSegment(v: L1Vertex, problem: LinearProblem, from: number, to: n
   }
 }
 
-/** The full pass of the slow path: g over every non-basis row at the plain fitter's vertex. */
-export function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: Int32Array): L1Vertex | undefined {
+/**
+ * The state at the plain fitter's vertex: g from the fitter's side sum when it has one (no pass),
+ * else one pass over every non-basis row.
+ */
+export function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: Int32Array, sides: VertexSides | null = null): L1Vertex | undefined {
   const { p, X, weights } = problem;
   if (basis.length !== p) return undefined;
   const AB = new Float64Array(p * p);
@@ -90,9 +97,12 @@ export function vertexState(problem: LinearProblem, coefficients: Float64Array, 
   const invNorm = matrixNorm1(inverseFromLu(lu), p);
   const v: L1Vertex = {
     beta: Float64Array.from(coefficients), basis: Int32Array.from(basis), lu, invNorm,
-    g: new Float64Array(p), comp: new Float64Array(p), absSum: new Float64Array(p),
+    g: new Float64Array(p), comp: new Float64Array(p), absSum: new Float64Array(p), gErr0: new Float64Array(p),
   };
-  addSideTerms(v, problem, 0, v.basis);
+  if (sides) {
+    v.g.set(sides.g);
+    v.gErr0.set(sides.gErr);
+  } else addSideTerms(v, problem, 0, v.basis);
   return v;
 }
 
@@ -118,7 +128,7 @@ export function dualTest(v: L1Vertex, n: number): { ok: boolean; maxDual: number
   let maxDual = 0;
   for (let k = 0; k < p; k++) maxDual = Math.max(maxDual, Math.abs(z[k]));
   let gErr = 0;
-  for (let j = 0; j < p; j++) gErr = Math.max(gErr, Number.EPSILON * Math.abs(G[j]) + gamma(n) ** 2 * absSum[j]);
+  for (let j = 0; j < p; j++) gErr = Math.max(gErr, Number.EPSILON * Math.abs(G[j]) + gamma(n) ** 2 * absSum[j] + v.gErr0[j]);
   const zErr = invNorm * gErr + 2 * p * Number.EPSILON * maxDual;
   return { ok: maxDual + zErr <= 1 + GAP_TOL, maxDual };
 }

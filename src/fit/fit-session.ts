@@ -24,7 +24,7 @@ import { InputError } from '../errors.ts';
 import { defineCachedField } from './cached-field.ts';
 import { fitHuber, HUBER_K, huberRho } from './huber.ts';
 import { buildHuberKept, refitHuberKept, type HuberKept } from './fit-session-huber.ts';
-import { fitLeastAbsolute } from './least-absolute.ts';
+import { fitLeastAbsoluteWithSides } from './least-absolute.ts';
 import { fitLeastSquares, NORMAL_MIN_PIVOT } from './least-squares.ts';
 import { fitMinimax, ROUNDING_ULPS, VIOLATION_REL } from './minimax.ts';
 import { residualsOf, validateProblem } from './problem.ts';
@@ -329,8 +329,9 @@ function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: 
       return kept;
     }
   }
-  const result = warmFit('least-absolute', problem, prev?.result, options);
-  const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis) : undefined;
+  // The fitter hands back its vertex's side sum when its band proof holds: no pass to rebuild g.
+  const { result, sides } = fitLeastAbsoluteWithSides(problem, { ...options, warmStart: options.warmStart ?? l1WarmStart(prev?.result) });
+  const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis, sides) : undefined;
   return vertex ? { result, n, vertex } : { result, n };
 }
 
@@ -380,20 +381,25 @@ function widenBounds(b: RowBounds, problem: LinearProblem, from: number): void {
   }
 }
 
-/** The plain fitter, warm-started from this estimator's previous session result (a start only). */
-function warmFit(estimator: Exclude<Estimator, 'least-squares' | 'minimax'>, problem: LinearProblem, prev: FitResult | undefined, options: FitOptions): FitResult {
+/** The previous L1 answer as a warm start (coefficients and vertex). */
+function l1WarmStart(prev: FitResult | undefined): FitOptions['warmStart'] {
+  if (!prev || prev.status !== 'ok') return undefined;
+  return prev.basis ? { coefficients: prev.coefficients, basis: prev.basis } : { coefficients: prev.coefficients };
+}
+
+/** The plain Huber/Tukey fitter, warm-started from this estimator's previous session result (a start only). */
+function warmFit(estimator: 'huber' | 'tukey', problem: LinearProblem, prev: FitResult | undefined, options: FitOptions): FitResult {
   let warmStart = options.warmStart;
   if (!warmStart && prev && prev.status === 'ok') {
     warmStart = { coefficients: prev.coefficients };
-    // A scale without the L1 vertex would be HELD by Huber/Tukey (irls.ts); with the vertex the
-    // refit re-derives the start and its MAD on the new rows, i.e. the cold answer.
+    // A scale without the L1 vertex would be HELD (irls.ts); with the vertex the refit re-derives
+    // the start and its MAD on the new rows, i.e. the cold answer.
     if (prev.basis) {
       warmStart.basis = prev.basis;
-      if (estimator !== 'least-absolute') warmStart.scale = prev.scale;
+      warmStart.scale = prev.scale;
     }
   }
   const opts = { ...options, warmStart };
-  if (estimator === 'least-absolute') return fitLeastAbsolute(problem, opts);
   return estimator === 'huber' ? fitHuber(problem, opts) : fitTukey(problem, opts);
 }
 
