@@ -1,68 +1,74 @@
-// The exact L1 fit's MAD scale, kept by a fit session while the L1 vertex stays optimal.
+// The exact L1 fit's MAD scale for a fit session's refit, from a sorted reference instead of a
+// selection over all rows.
 //
 // Why: Huber and Tukey hold the scale s = 1.4826·median|ρᵢ − median ρ| of the exact L1 fit's
 // whitened residuals ρ fixed (irls.ts; Hampel 1974, check-values.md). A refit after one more
-// reading needs that s on all n rows; selecting two medians costs a pass or three over the data
-// (robust-scale.ts), more than the rest of a warm Huber refit. While the session keeps the L1
-// vertex (fit-session.ts), the old rows' residuals do not change: the session keeps them sorted,
-// inserts the new rows' residuals (a binary search and a copy each), and reads both medians off
-// the sorted array — the deviation median as the k-th smallest of two sorted runs (the values
-// left of the median, mirrored, and those right of it), O(log n). Exact: values are only compared.
+// reading needs s on all n rows; selecting two medians costs a few passes over the data
+// (robust-scale.ts), more than the rest of a warm Huber refit. The session keeps a reference: the
+// residuals of the first m rows at some β_ref, sorted, with each one's row. At the fit's β every
+// old residual moved by at most `reach` (≥ √wᵢ|xᵢᵀ(β − β_ref)|, from the columns' ranges; 0 while
+// the vertex holds), so every order statistic of the old rows moved by at most reach, and the
+// a = n − m rows added since shift ranks by at most a. The wanted order statistic k lies in the
+// window [old(k − a) − reach, old(k) + reach]; old rows sorted more than reach outside it are
+// below or above it for certain (counted by binary search), the few near its edges and the added
+// rows are recomputed one by one, and the value is selected among those inside. The deviations
+// |ρ − m| moved by at most reach + |m − m_ref|, and the old rows with a given range of deviations
+// are two runs of the sorted array (left and right of m_ref): the same steps give the deviation
+// median. O(log n + rows near the windows + a) per refit; exact, as values are only compared.
 import { residualsRange } from './problem.ts';
 import { MAD_CONSISTENCY } from './robust-scale.ts';
 import type { LinearProblem } from './types.ts';
 
-/** The whitened L1 residuals at `beta` of rows [0, rows), ascending. Immutable once made (checkpoints share it). */
+/** Rows added since the reference beyond which it is rebuilt (each is recomputed on every refit). */
+export const SCALE_REFERENCE_MAX_ADDED = 512;
+/** From this many rows no reference is built (an index sort of 10⁶ rows costs more than it saves). */
+export const SCALE_REFERENCE_MAX_ROWS = 200_000;
+
+/** Whitened residuals at β_ref of rows [0, rows), ascending, with each one's row. Never written after it is made (checkpoints share it). */
 export interface SortedResiduals {
   readonly beta: Float64Array;
   readonly values: Float64Array;
+  readonly order: Int32Array;
   readonly rows: number;
 }
 
-/** Whitened residuals √wᵢ(yᵢ − xᵢᵀβ) of rows [from, to), by the same arithmetic as residualsOf. */
-function whitened(problem: LinearProblem, beta: Float64Array, from: number, to: number): Float64Array {
-  const out = residualsRange(problem, beta, from, to - from, new Float64Array(to - from));
-  const w = problem.weights;
-  if (w) for (let i = 0; i < out.length; i++) out[i] *= Math.sqrt(w[from + i]);
-  return out;
+/** √wᵢ(yᵢ − xᵢᵀβ) of one row, the arithmetic of residualsRange for p = 2, 3 and of its general loop otherwise. */
+function residualOf(problem: LinearProblem, beta: Float64Array, i: number): number {
+  const { p, X, y, weights } = problem;
+  const sw = weights ? Math.sqrt(weights[i]) : 1;
+  let r: number;
+  if (p === 2) r = y[i] - (X[2 * i] * beta[0] + X[2 * i + 1] * beta[1]);
+  else if (p === 3) r = y[i] - (X[3 * i] * beta[0] + X[3 * i + 1] * beta[1] + X[3 * i + 2] * beta[2]);
+  else r = residualsRange(problem, beta, i, 1, new Float64Array(1))[0];
+  return sw * r;
 }
 
-/** Every row's residual at β, sorted: O(n log n), paid once per vertex. */
+/** Every row's whitened residual at β, sorted with its row: O(n log n), paid when a reference is (re)built. */
 export function sortResiduals(problem: LinearProblem, beta: Float64Array): SortedResiduals {
-  const values = whitened(problem, beta, 0, problem.n).sort();
-  return { beta, values, rows: problem.n };
+  const { n, weights } = problem;
+  const rho = residualsRange(problem, beta, 0, n, new Float64Array(n));
+  if (weights) for (let i = 0; i < n; i++) rho[i] *= Math.sqrt(weights[i]);
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  order.sort((a, b) => rho[a] - rho[b]);
+  const values = new Float64Array(n);
+  for (let t = 0; t < n; t++) values[t] = rho[order[t]];
+  return { beta: Float64Array.from(beta), values, order, rows: n };
 }
 
-/** Index of the first value > v in a[0..n). */
-function upperBound(a: Float64Array, n: number, v: number): number {
-  let lo = 0;
-  let hi = n;
+/** Index of the first value ≥ v (strict = false) or > v (strict = true) in a[from..to). */
+function bound(a: Float64Array, v: number, strict: boolean, from = 0, to = a.length): number {
+  let lo = from;
+  let hi = to;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (a[mid] <= v) lo = mid + 1;
+    if (a[mid] < v || (strict && a[mid] === v)) lo = mid + 1;
     else hi = mid;
   }
   return lo;
 }
 
-/** A new sorted array with rows kept.rows … problem.n − 1 at the same β inserted (the old one is left as it was). */
-export function extendSorted(kept: SortedResiduals, problem: LinearProblem): SortedResiduals {
-  const added = whitened(problem, kept.beta, kept.rows, problem.n).sort();
-  const old = kept.values;
-  const values = new Float64Array(old.length + added.length);
-  // Segments of the old array between the insertion points, copied whole (memcpy speed).
-  let from = 0;
-  for (let k = 0; k < added.length; k++) {
-    const at = upperBound(old, old.length, added[k]);
-    values.set(old.subarray(from, at), from + k);
-    values[at + k] = added[k];
-    from = at;
-  }
-  values.set(old.subarray(from), from + added.length);
-  return { beta: kept.beta, values, rows: problem.n };
-}
-
-/** The middle of sorted a[0..n) as middleOf in robust-scale.ts takes it (mean of the two middles for even n). */
+/** The middle of sorted data given its k-th value (mean of the two middles for even n, as robust-scale.ts). */
 function sortedMiddle(kth: (k: number) => number, n: number): number {
   const hi = kth(n >> 1);
   if (n % 2 === 1) return hi;
@@ -72,20 +78,18 @@ function sortedMiddle(kth: (k: number) => number, n: number): number {
 }
 
 /** The median m of sorted v and the k-th smallest |vᵢ − m| (0-based), O(log n) each. */
-function sortedDeviations(v: Float64Array): { m: number; kth: (k: number) => number } {
+function sortedDeviations(v: Float64Array): { m: number; split: number; kth: (k: number) => number } {
   const n = v.length;
   const m = sortedMiddle((k) => v[k], n);
   // Deviations: A[j] = m − v[a−1−j] (left of m, ascending), B[j] = v[a+j] − m (right, ascending).
-  const a = upperBound(v, n, m);
-  const na = a;
+  const a = bound(v, m, true);
   const nb = n - a;
   const A = (j: number): number => m - v[a - 1 - j];
   const B = (j: number): number => v[a + j] - m;
-  // k-th smallest of A ∪ B: t values from A and k + 1 − t from B, the smallest t with
-  // A[t] ≥ B[k − t] (binary search; both runs ascending).
+  // k-th smallest of A ∪ B: t values from A and k + 1 − t from B, the smallest t with A[t] ≥ B[k − t].
   const kth = (k: number): number => {
     let lo = Math.max(0, k + 1 - nb);
-    let hi = Math.min(k + 1, na);
+    let hi = Math.min(k + 1, a);
     while (lo < hi) {
       const t = (lo + hi) >> 1;
       if (B(k - t) > A(t)) lo = t + 1;
@@ -95,58 +99,87 @@ function sortedDeviations(v: Float64Array): { m: number; kth: (k: number) => num
     const fromB = k - lo >= 0 && k - lo < nb ? B(k - lo) : -Infinity;
     return Math.max(fromA, fromB);
   };
-  return { m, kth };
+  return { m, split: a, kth };
 }
 
 /** 1.4826·median|vᵢ − median v| of sorted v, the MAD scale robust-scale.ts computes by selection. */
 export function madOfSorted(v: Float64Array): number {
-  const n = v.length;
-  if (n === 0) return NaN;
-  const { kth } = sortedDeviations(v);
-  return MAD_CONSISTENCY * sortedMiddle(kth, n);
+  if (v.length === 0) return NaN;
+  return MAD_CONSISTENCY * sortedMiddle(sortedDeviations(v).kth, v.length);
 }
+
+/** Counts below a window and the values inside it, for the middle ranks of n values. */
+class Window {
+  below = 0;
+  inside: number[] = [];
+  constructor(readonly lo: number, readonly hi: number) {}
+  add(v: number): void {
+    if (v < this.lo) this.below++;
+    else if (v <= this.hi) this.inside.push(v);
+  }
+  /** The middle of all n values, or null when the counts contradict the window (rounding at its edges). */
+  middle(n: number): number | null {
+    const k2 = n >> 1;
+    const k1 = n % 2 === 1 ? k2 : k2 - 1;
+    const { below, inside } = this;
+    if (below > k1 || k2 >= below + inside.length) return null;
+    inside.sort((x, y) => x - y);
+    return sortedMiddle((k) => inside[k - below], n);
+  }
+}
+
+/** Rows near a window edge beyond which the reference is not worth it (the caller rebuilds it). */
+const MAX_ZONE_ROWS = 4096;
 
 /**
- * The MAD scale at a new vertex β′ from the sorted residuals at the previous one, in two passes
- * over the rows instead of a selection over all of them. Each old row's whitened residual moved by
- * at most `reach` (≥ √wᵢ|xᵢᵀ(β′ − β)|, from the columns' ranges), so each order statistic of
- * the old rows moved by at most `reach`, and a added rows shift ranks by at most a: the wanted
- * order statistics lie in windows [old(k₁ − a) − reach, old(k₂) + reach]. A pass counts the rows
- * below the window and keeps those inside; a selection among the kept gives the exact value. The
- * deviations |ρ′ᵢ − m′| moved by at most reach + |m′ − m|, which gives the second pass's window.
- * Null when a count contradicts the windows (rounding at their edges): the caller selects directly.
+ * The MAD scale of the whitened residuals at β over all n rows from the reference (see the file
+ * comment); null when the windows would hold too many rows or a count contradicts them.
  */
-export function madAfterMove(problem: LinearProblem, beta: Float64Array, old: SortedResiduals, reach: number): number | null {
+export function madFromReference(problem: LinearProblem, beta: Float64Array, ref: SortedResiduals, reach: number): number | null {
   const n = problem.n;
-  const added = n - old.rows;
-  if (added < 0 || !(reach >= 0) || !Number.isFinite(reach)) return null;
-  const rho = whitened(problem, beta, 0, n);
-  const oldAt = (k: number): number => (k < 0 ? -Infinity : k >= old.rows ? Infinity : old.values[k]);
-  const middle = windowedMiddle(rho, n, (k) => oldAt(k), added, reach);
-  if (middle === null) return null;
-  const dev = sortedDeviations(old.values);
-  const devAt = (k: number): number => (k < 0 ? -Infinity : k >= old.rows ? Infinity : dev.kth(k));
-  for (let i = 0; i < n; i++) rho[i] = Math.abs(rho[i] - middle);
-  const spread = windowedMiddle(rho, n, devAt, added, reach + Math.abs(middle - dev.m));
-  return spread === null ? null : MAD_CONSISTENCY * spread;
-}
-
-/** The middle of values[0..n) (as sortedMiddle takes it) found inside the window the old order statistics give. */
-function windowedMiddle(values: Float64Array, n: number, oldAt: (k: number) => number, added: number, reach: number): number | null {
+  const { values: v, order, rows: m } = ref;
+  const added = n - m;
+  if (added < 0 || added > SCALE_REFERENCE_MAX_ADDED || !(reach >= 0) || !Number.isFinite(reach) || m === 0) return null;
   const k2 = n >> 1;
   const k1 = n % 2 === 1 ? k2 : k2 - 1;
-  const lo = oldAt(k1 - added) - reach;
-  const hi = oldAt(k2) + reach;
-  let below = 0;
-  const inside: number[] = [];
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    if (v < lo) below++;
-    else if (v <= hi && inside.length <= n >> 2) inside.push(v);
-    else if (v <= hi) return null;
-  }
-  // A window holding a quarter of the rows saves nothing over a selection.
-  if (below > k1 || k2 >= below + inside.length || inside.length > Math.max(64, n >> 2)) return null;
-  inside.sort((a, b) => a - b);
-  return sortedMiddle((k) => inside[k - below], n);
+  const oldAt = (k: number): number => (k < 0 ? -Infinity : k >= m ? Infinity : v[k]);
+  const addedRho = new Float64Array(added);
+  for (let i = 0; i < added; i++) addedRho[i] = residualOf(problem, beta, m + i);
+
+  // The median: old rows sorted below lo − reach are below for certain, above hi + reach above.
+  const med = new Window(oldAt(k1 - added) - reach, oldAt(k2) + reach);
+  const from = bound(v, med.lo - reach, false);
+  const to = bound(v, med.hi + reach, true);
+  if (to - from > MAX_ZONE_ROWS) return null;
+  med.below = from;
+  for (let t = from; t < to; t++) med.add(residualOf(problem, beta, order[t]));
+  for (let i = 0; i < added; i++) med.add(addedRho[i]);
+  const centre = med.middle(n);
+  if (centre === null) return null;
+
+  // The deviations: old rows with |v − m_ref| < L are the run v ∈ (m_ref − L, m_ref + L).
+  const dev = sortedDeviations(v);
+  const devAt = (k: number): number => (k < 0 ? -Infinity : k >= m ? Infinity : dev.kth(k));
+  const r2 = reach + Math.abs(centre - dev.m);
+  const spread = new Window(devAt(k1 - added) - r2, devAt(k2) + r2);
+  const inner = Math.max(0, spread.lo - r2);
+  const outer = spread.hi + r2;
+  // Rows with old deviation < inner (certainly below): v in (m_ref − inner, m_ref + inner).
+  const belowFrom = bound(v, dev.m - inner, true);
+  const belowTo = bound(v, dev.m + inner, false);
+  // Rows with old deviation ≤ outer: v in [m_ref − outer, m_ref + outer]; the zone is that run less the certain ones.
+  const zoneFrom = bound(v, dev.m - outer, false);
+  const zoneTo = bound(v, dev.m + outer, true);
+  if (belowFrom - zoneFrom + (zoneTo - belowTo) > MAX_ZONE_ROWS) return null;
+  spread.below = inner > 0 ? Math.max(0, belowTo - belowFrom) : 0;
+  const zone = (a: number, b: number): void => {
+    for (let t = a; t < b; t++) spread.add(Math.abs(residualOf(problem, beta, order[t]) - centre));
+  };
+  if (inner > 0 && belowTo > belowFrom) {
+    zone(zoneFrom, belowFrom);
+    zone(belowTo, zoneTo);
+  } else zone(zoneFrom, zoneTo);
+  for (let i = 0; i < added; i++) spread.add(Math.abs(addedRho[i] - centre));
+  const d = spread.middle(n);
+  return d === null ? null : MAD_CONSISTENCY * d;
 }

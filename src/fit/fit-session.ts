@@ -14,8 +14,8 @@
 //   (fit-session-vertex.ts); O(p) per new row and one p×p solve. If the vertex fails, the plain
 //   fitter warm-started from it.
 // - Huber, Tukey: the cold recipe from the session's parts — its exact L1 fit (kept vertex or
-//   warm refit), that fit's MAD scale (fit-session-scale.ts: kept sorted while the vertex holds,
-//   windowed after a new vertex), and IRLS at that scale from the previous answer. Huber first
+//   warm refit), that fit's MAD scale (fit-session-scale.ts: from a sorted residual reference,
+//   O(log n) plus the rows near the medians), and IRLS at that scale from the previous answer. Huber first
 //   tries its kept partition sums (fit-session-huber.ts): exact with no pass over the data when
 //   the readings near ±k keep their sides and a bound proves the others do.
 // Results of the session's own paths compute their n-sized outputs (residuals, the minimax MAD
@@ -31,7 +31,7 @@ import { residualsOf, validateProblem } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { buildSums, cloneSums, foldRows, restoreSums, SUMS_REBUILD_GROWTH, sumsResult, type NormalSums } from './fit-session-sums.ts';
 import { dualTest, extendVertex, vertexKept, vertexState, type L1Vertex } from './fit-session-vertex.ts';
-import { extendSorted, madAfterMove, madOfSorted, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
+import { madFromReference, madOfSorted, SCALE_REFERENCE_MAX_ROWS, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
 import { fitTukey, TUKEY_C, tukeyRho } from './tukey.ts';
 import { buildTukeyKept, refitTukeyKept, type TukeyKept } from './fit-session-tukey.ts';
 import { ESTIMATORS, type Estimator, type FitOptions, type FitResult, type LinearProblem } from './types.ts';
@@ -69,7 +69,7 @@ interface Kept {
   level?: number;
   /** Least absolute deviations: the vertex's dual state over the result's rows. */
   vertex?: L1Vertex;
-  /** Least absolute deviations: the whitened residuals at the vertex, sorted (the M-estimators' scale; fit-session-scale.ts). */
+  /** Least absolute deviations: a sorted residual reference for the M-estimators' scale (fit-session-scale.ts). */
   sorted?: SortedResiduals;
   /** Huber: the partition sums of its exact answer (fit-session-huber.ts). */
   huber?: HuberKept;
@@ -227,8 +227,8 @@ class Session implements FitSession {
 
   /**
    * Huber, Tukey: the cold fitter's recipe with the session's parts. The exact L1 fit of these
-   * rows comes from the session (its vertex kept when still optimal), its MAD scale from the kept
-   * sorted residuals when the vertex is the previous one (fit-session-scale.ts), and IRLS at that
+   * rows comes from the session (its vertex kept when still optimal), its MAD scale from the
+   * session's sorted residual reference (fit-session-scale.ts), and IRLS at that
    * fixed scale starts from this estimator's previous answer (Newton at once, irls.ts). Huber's ρ
    * is convex, so the start does not change its fixed-scale optimum; Tukey's is not, and a start
    * one reading away from the answer is at least as close to the cold fit's basin as the L1 start.
@@ -322,48 +322,46 @@ function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: 
   if (prev && v && prev.n <= n && !options.warmStart) {
     const next = extendVertex(v, problem, prev.n);
     const test = dualTest(next, n);
-    if (test.ok) {
-      const kept: Kept = { result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next };
-      // Sorted residuals of fewer rows at the same vertex stay valid; the next M-fit extends them.
-      if (prev.sorted?.beta === next.beta) kept.sorted = prev.sorted;
-      return kept;
-    }
+    if (test.ok) return withReference({ result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next }, prev);
   }
   // The fitter hands back its vertex's side sum when its band proof holds: no pass to rebuild g.
   const { result, sides } = fitLeastAbsoluteWithSides(problem, { ...options, warmStart: options.warmStart ?? l1WarmStart(prev?.result) });
   const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis, sides) : undefined;
-  return vertex ? { result, n, vertex } : { result, n };
+  return withReference(vertex ? { result, n, vertex } : { result, n }, prev);
+}
+
+/** The sorted residual reference stays valid for any β (its reach grows with the distance): carried on. */
+function withReference(kept: Kept, prev: Kept | undefined): Kept {
+  if (prev?.sorted) kept.sorted = prev.sorted;
+  return kept;
 }
 
 /**
- * The L1 fit's MAD scale over all rows. The vertex kept from the previous fit: its sorted residuals
- * with the new rows inserted (the sort itself is paid the first time a vertex is kept, or on the
- * session's first fit); a new vertex: the L1 result's own scale (a selection over the rows).
+ * The L1 fit's MAD scale over all rows, from the sorted reference the session keeps
+ * (fit-session-scale.ts): residuals of its rows at β_ref, each having moved by at most
+ * √w_max·Σⱼ max|xⱼ|·|βⱼ − β_refⱼ| since (0 while the vertex holds), plus the rounding of a residual
+ * of readings up to max|y| (64ε of it: far above the few ulps of y − xᵀβ). Without a usable
+ * reference a new one is sorted (O(n log n), not above SCALE_REFERENCE_MAX_ROWS); beyond that the
+ * L1 result's own scale, a selection.
  */
 function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined, bounds: RowBounds): { scale: number; how: string } {
-  const beta = l1.vertex?.beta;
-  if (beta) {
-    const sameVertex = l1Prev?.vertex?.beta === beta;
-    const kept = l1Prev?.sorted;
-    if (sameVertex && kept && kept.beta === beta && kept.rows <= problem.n) {
-      l1.sorted = kept.rows === problem.n ? kept : extendSorted(kept, problem);
-      return { scale: madOfSorted(l1.sorted.values), how: `the vertex kept: ${problem.n - kept.rows} residuals inserted into the sorted ${kept.rows}` };
-    }
-    if (sameVertex || !l1Prev) {
-      l1.sorted = sortResiduals(problem, beta);
-      return { scale: madOfSorted(l1.sorted.values), how: 'its residuals sorted once for later refits' };
-    }
-    if (kept && kept.rows <= problem.n) {
-      // Every whitened residual moved by ≤ √w_max·Σⱼ max|xⱼ|·|Δβⱼ|, plus the rounding of a
-      // residual of readings up to max|y| (64ε of it: far above the few ulps of y − xᵀβ).
-      let reach = 0;
-      for (let j = 0; j < beta.length; j++) reach += bounds.colAbsMax[j] * Math.abs(beta[j] - kept.beta[j]);
-      reach = bounds.sqrtWMax * (reach + 64 * Number.EPSILON * (bounds.yAbsMax + reach));
-      const scale = madAfterMove(problem, beta, kept, reach);
-      if (scale !== null) return { scale, how: `a new vertex: the MAD from windows of ±${reach.toPrecision(2)} around the previous vertex's order statistics` };
+  const beta = l1.result.coefficients;
+  const ref = l1Prev?.sorted;
+  if (ref && ref.rows <= problem.n) {
+    let reach = 0;
+    for (let j = 0; j < beta.length; j++) reach += bounds.colAbsMax[j] * Math.abs(beta[j] - ref.beta[j]);
+    reach = bounds.sqrtWMax * (reach + 64 * Number.EPSILON * (bounds.yAbsMax + reach));
+    const scale = madFromReference(problem, beta, ref, reach);
+    if (scale !== null) {
+      l1.sorted = ref;
+      return { scale, how: `from its reference of ${ref.rows} sorted residuals, ${problem.n - ref.rows} rows since, windows ±${reach.toPrecision(2)}` };
     }
   }
-  return { scale: l1.result.scale, how: 'a new vertex: the MAD by selection' };
+  if (problem.n <= SCALE_REFERENCE_MAX_ROWS) {
+    l1.sorted = sortResiduals(problem, beta);
+    return { scale: madOfSorted(l1.sorted.values), how: 'its residuals sorted as the reference for later refits' };
+  }
+  return { scale: l1.result.scale, how: 'by selection' };
 }
 
 interface RowBounds {

@@ -1,8 +1,8 @@
-// The session's kept L1 scale (src/fit/fit-session-scale.ts) against the definition computed by
+// The session's L1 scale from a sorted reference (src/fit/fit-session-scale.ts) against the definition computed by
 // brute force: sort, take the median, sort the absolute deviations, take their median, × 1/Φ⁻¹(3/4)
 // (1.482602218505602, check-values.md; Hampel 1974). Seeded invented values with ties and outliers.
 import { describe, expect, it } from 'vitest';
-import { extendSorted, madAfterMove, madOfSorted, sortResiduals } from '../../src/fit/fit-session-scale.ts';
+import { madFromReference, madOfSorted, sortResiduals } from '../../src/fit/fit-session-scale.ts';
 import { madScaleOverwrite } from '../../src/fit/robust-scale.ts';
 import type { LinearProblem } from '../../src/fit/types.ts';
 import { seeded as mulberry32 } from './least-absolute-reference.ts';
@@ -52,70 +52,67 @@ describe('madOfSorted', () => {
   });
 });
 
-describe('sortResiduals / extendSorted', () => {
-  it('keeps the whitened residuals of every row sorted as rows are appended, leaving the old array untouched', () => {
-    const rand = mulberry32(77);
-    const n = 400;
-    const p = 2;
-    const X = new Float64Array(n * p);
-    const y = new Float64Array(n);
-    const weights = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const s = Math.sin((rand() * 70 * Math.PI) / 180);
-      X[i * p] = 1;
-      X[i * p + 1] = s * s;
-      y[i] = 110574 + 1120 * s * s + (rand() - 0.5) * 10;
-      weights[i] = 0.5 + rand();
-    }
+/** Invented degree-length rows (seeded): x = sin²φ, 110574 + 1120x + noise, 5 % outliers, optional weights. */
+function degreeProblem(seed: number, n: number, weighted: boolean): LinearProblem {
+  const rand = mulberry32(seed);
+  const p = 2;
+  const X = new Float64Array(n * p);
+  const y = new Float64Array(n);
+  const weights = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const s = Math.sin((rand() * 70 * Math.PI) / 180);
+    X[i * p] = 1;
+    X[i * p + 1] = s * s;
+    y[i] = 110574 + 1120 * s * s + (rand() - 0.5) * 10 + (rand() < 0.05 ? 200 * (rand() - 0.3) : 0);
+    weights[i] = 0.5 + rand();
+  }
+  return weighted ? { n, p, X, y, weights } : { n, p, X, y };
+}
+
+function head(pr: LinearProblem, m: number): LinearProblem {
+  const out: LinearProblem = { n: m, p: pr.p, X: pr.X.subarray(0, m * pr.p), y: pr.y.subarray(0, m) };
+  if (pr.weights) out.weights = pr.weights.subarray(0, m);
+  return out;
+}
+
+function whitenedAt(pr: LinearProblem, beta: ArrayLike<number>): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < pr.n; i++) {
+    const sw = pr.weights ? Math.sqrt(pr.weights[i]) : 1;
+    out.push(sw * (pr.y[i] - (pr.X[2 * i] * beta[0] + pr.X[2 * i + 1] * beta[1])));
+  }
+  return out;
+}
+
+describe('sortResiduals', () => {
+  it('sorts the whitened residuals with each one\'s row', () => {
+    const pr = degreeProblem(77, 400, true);
     const beta = Float64Array.from([110574, 1120]);
-    const pr = (m: number): LinearProblem => ({ n: m, p, X: X.subarray(0, m * p), y: y.subarray(0, m), weights: weights.subarray(0, m) });
-    let kept = sortResiduals(pr(300), beta);
-    const first = Float64Array.from(kept.values);
-    for (const m of [301, 302, 310, 400]) {
-      const next = extendSorted(kept, pr(m));
-      const want: number[] = [];
-      for (let i = 0; i < m; i++) want.push(Math.sqrt(weights[i]) * (y[i] - (X[i * p] * beta[0] + X[i * p + 1] * beta[1])));
-      want.sort((a, b) => a - b);
-      expect(Array.from(next.values)).toEqual(want);
-      expect(next.rows).toBe(m);
-      expect(madOfSorted(next.values)).toBe(bruteMad(want));
-      kept = next;
-    }
-    expect(Array.from(sortResiduals(pr(300), beta).values)).toEqual(Array.from(first));
+    const ref = sortResiduals(pr, beta);
+    const want = whitenedAt(pr, beta);
+    expect(Array.from(ref.values)).toEqual([...want].sort((a, b) => a - b));
+    ref.order.forEach((row, t) => expect(ref.values[t]).toBe(want[row]));
   });
 });
 
-describe('madAfterMove', () => {
-  it('gives the brute-force MAD at a moved β with rows added, from windows around the old order statistics', () => {
-    const rand = mulberry32(91);
-    const n = 2000;
-    const p = 2;
-    const X = new Float64Array(n * p);
-    const y = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const s = Math.sin((rand() * 70 * Math.PI) / 180);
-      X[i * p] = 1;
-      X[i * p + 1] = s * s;
-      y[i] = 110574 + 1120 * s * s + (rand() - 0.5) * 10 + (rand() < 0.05 ? 200 : 0);
-    }
-    const pr = (m: number): LinearProblem => ({ n: m, p, X: X.subarray(0, m * p), y: y.subarray(0, m) });
-    const old = sortResiduals(pr(1990), Float64Array.from([110574, 1120]));
-    for (const [m, dc, dm] of [[1990, 0.001, -0.002], [1991, 0.004, 0.001], [1995, -0.003, 0.01], [2000, 0.02, -0.05]] as const) {
-      const beta = Float64Array.from([110574 + dc, 1120 + dm]);
-      // max |x| per column is 1 and ≤ 0.883 (sin²70°): the reach bound of the session.
-      const reach = Math.abs(dc) + Math.abs(dm);
-      const want: number[] = [];
-      for (let i = 0; i < m; i++) want.push(y[i] - (X[i * p] * beta[0] + X[i * p + 1] * beta[1]));
-      expect(madAfterMove(pr(m), beta, old, reach), `rows ${m}, Δβ = (${dc}, ${dm})`).toBe(bruteMad(want));
-    }
-  });
+describe('madFromReference', () => {
+  for (const weighted of [false, true]) {
+    it(`gives the brute-force MAD at moved β with rows added since the reference${weighted ? ' (weighted rows)' : ''}`, () => {
+      const full = degreeProblem(weighted ? 92 : 91, 2000, weighted);
+      const ref = sortResiduals(head(full, 1990), Float64Array.from([110574, 1120]));
+      for (const [m, dc, dm] of [[1990, 0, 0], [1991, 0, 0], [1990, 0.001, -0.002], [1991, 0.004, 0.001], [1995, -0.003, 0.01], [2000, 0.02, -0.05], [2000, 0.5, -1]] as const) {
+        const beta = Float64Array.from([110574 + dc, 1120 + dm]);
+        // The session's reach: √w_max·Σ max|xⱼ||Δβⱼ| (max|x| per column ≤ 1), plus rounding slack.
+        const reach = (weighted ? Math.sqrt(1.5) : 1) * (Math.abs(dc) + Math.abs(dm)) + 1e-9;
+        const got = madFromReference(head(full, m), beta, ref, reach);
+        expect(got, `rows ${m}, Δβ = (${dc}, ${dm})`).toBe(bruteMad(whitenedAt(head(full, m), beta)));
+      }
+    });
+  }
 
-  it('refuses (null) when the windows are too wide to help, so the caller selects directly', () => {
-    const values = randomValues(5, 400, false);
-    const X = new Float64Array(400 * 2);
-    for (let i = 0; i < 400; i++) X[2 * i] = 1;
-    const pr: LinearProblem = { n: 400, p: 2, X, y: values };
-    const old = sortResiduals(pr, Float64Array.from([0, 0]));
-    expect(madAfterMove(pr, Float64Array.from([0.5, 0]), old, 1e6)).toBeNull();
+  it('refuses (null) when more rows were added than it recomputes, so the caller rebuilds', () => {
+    const full = degreeProblem(93, 1200, false);
+    const ref = sortResiduals(head(full, 600), Float64Array.from([110574, 1120]));
+    expect(madFromReference(full, Float64Array.from([110574, 1120]), ref, 0)).toBeNull();
   });
 });
