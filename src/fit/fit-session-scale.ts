@@ -24,12 +24,25 @@ export const SCALE_REFERENCE_MAX_ADDED = 512;
 /** From this many rows no reference is built (an index sort of 10⁶ rows costs more than it saves). */
 export const SCALE_REFERENCE_MAX_ROWS = 200_000;
 
-/** Whitened residuals at β_ref of rows [0, rows), ascending, with each one's row. Never written after it is made (checkpoints share it). */
+/**
+ * Whitened residuals at β_ref of rows [0, rows), ascending, with each one's row, and running sums
+ * in that order for the L1 refit (fit-session-l1-refit.ts). Never written after it is made
+ * (checkpoints share it).
+ */
 export interface SortedResiduals {
   readonly beta: Float64Array;
   readonly values: Float64Array;
   readonly order: Int32Array;
   readonly rows: number;
+  /**
+   * (rows + 1)×(p + 1), row t: Σ over the first t sorted rows of (ρ̃ᵢ, √wᵢxᵢ₁ … √wᵢxᵢₚ), summed by
+   * TwoSum (Knuth) into `prefix` + `prefixLo`, so a difference of two rows is as accurate as a
+   * compensated sum of the run between them.
+   */
+  readonly prefix: Float64Array;
+  readonly prefixLo: Float64Array;
+  /** Σ|·| of each of the p + 1 columns over all rows: the scale of the running sums' rounding bound. */
+  readonly absTotal: Float64Array;
 }
 
 /** √wᵢ(yᵢ − xᵢᵀβ) of one row, the arithmetic of residualsRange for p = 2, 3 and of its general loop otherwise. */
@@ -53,7 +66,35 @@ export function sortResiduals(problem: LinearProblem, beta: Float64Array): Sorte
   order.sort((a, b) => rho[a] - rho[b]);
   const values = new Float64Array(n);
   for (let t = 0; t < n; t++) values[t] = rho[order[t]];
-  return { beta: Float64Array.from(beta), values, order, rows: n };
+  const { prefix, prefixLo, absTotal } = runningSums(problem, values, order);
+  return { beta: Float64Array.from(beta), values, order, rows: n, prefix, prefixLo, absTotal };
+}
+
+/** The running sums of SortedResiduals: O(n·p), paid with the sort. */
+function runningSums(problem: LinearProblem, values: Float64Array, order: Int32Array): { prefix: Float64Array; prefixLo: Float64Array; absTotal: Float64Array } {
+  const { n, p, X, weights } = problem;
+  const q = p + 1;
+  const prefix = new Float64Array((n + 1) * q);
+  const prefixLo = new Float64Array((n + 1) * q);
+  const absTotal = new Float64Array(q);
+  const hi = new Float64Array(q);
+  const lo = new Float64Array(q);
+  for (let t = 0; t < n; t++) {
+    const i = order[t];
+    const sw = weights ? Math.sqrt(weights[i]) : 1;
+    for (let j = 0; j < q; j++) {
+      const a = j === 0 ? values[t] : sw * X[i * p + j - 1];
+      absTotal[j] += Math.abs(a);
+      // TwoSum: hi + a = u + e exactly.
+      const u = hi[j] + a;
+      const w = u - hi[j];
+      lo[j] += hi[j] - (u - w) + (a - w);
+      hi[j] = u;
+      prefix[(t + 1) * q + j] = u;
+      prefixLo[(t + 1) * q + j] = lo[j];
+    }
+  }
+  return { prefix, prefixLo, absTotal };
 }
 
 /** Index of the first value ≥ v (strict = false) or > v (strict = true) in a[from..to). */

@@ -31,7 +31,9 @@ import { residualsOf, validateProblem } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { buildSums, cloneSums, foldRows, restoreSums, SUMS_REBUILD_GROWTH, sumsResult, type NormalSums } from './fit-session-sums.ts';
 import { dualTest, extendVertex, vertexKept, vertexState, type L1Vertex } from './fit-session-vertex.ts';
-import { madFromReference, madOfSorted, SCALE_REFERENCE_MAX_ROWS, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
+import { madFromReference, madOfSorted, SCALE_REFERENCE_MAX_ADDED, SCALE_REFERENCE_MAX_ROWS, sortResiduals, type SortedResiduals } from './fit-session-scale.ts';
+import { emptyBounds, reachBetween, widenBounds, type RowBounds } from './fit-session-bounds.ts';
+import { refitFromReference } from './fit-session-l1-refit.ts';
 import { fitTukey, TUKEY_C, tukeyRho } from './tukey.ts';
 import { buildTukeyKept, refitTukeyKept, type TukeyKept } from './fit-session-tukey.ts';
 import { ESTIMATORS, type Estimator, type FitOptions, type FitResult, type LinearProblem } from './types.ts';
@@ -119,7 +121,7 @@ class Session implements FitSession {
       this.w = new Float64Array(cap);
       this.w.set(problem.weights);
     }
-    this.bounds = { colAbsMax: new Float64Array(p), sqrtWMax: 0, yAbsMax: 0 };
+    this.bounds = emptyBounds(p);
     widenBounds(this.bounds, this.problem, 0);
   }
 
@@ -171,7 +173,7 @@ class Session implements FitSession {
     let kept: Kept;
     if (estimator === 'least-squares') kept = { result: this.leastSquares(problem), n: problem.n };
     else if (estimator === 'minimax') kept = this.minimax(problem, prev, options);
-    else if (estimator === 'least-absolute') kept = leastAbsolute(problem, prev, options);
+    else if (estimator === 'least-absolute') kept = leastAbsolute(problem, prev, options, this.bounds);
     else kept = this.mEstimate(estimator, problem, prev, options);
     this.kept.set(estimator, kept);
     return kept.result;
@@ -239,7 +241,7 @@ class Session implements FitSession {
     const plain = (): Kept => ({ result: warmFit(estimator, problem, prev?.result, options), n });
     if (options.warmStart || options.scale !== undefined || n < problem.p) return plain();
     const l1Prev = this.kept.get('least-absolute');
-    const l1 = leastAbsolute(problem, l1Prev, {});
+    const l1 = leastAbsolute(problem, l1Prev, {}, this.bounds);
     this.kept.set('least-absolute', l1);
     if (l1.result.status !== 'ok') return plain();
     const { scale, how } = sessionScale(problem, l1, l1Prev, this.bounds);
@@ -315,19 +317,35 @@ function checkRow(row: SessionRow, k: number, p: number): void {
   }
 }
 
-/** L1: the kept vertex when the new rows leave it optimal, else the warm plain fitter (and a new vertex state from its answer). */
-function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: FitOptions): Kept {
+/**
+ * L1: the kept vertex when the new rows leave it optimal; else the refit from the sorted
+ * reference (fit-session-l1-refit.ts: only the rows near the fit solved, no pass); else the warm
+ * plain fitter, and a new vertex state from its answer. The reference is (re)built after a plain
+ * fit when there is none or it is stale (an O(n log n) sort, once per SCALE_REFERENCE_MAX_ADDED rows).
+ */
+function leastAbsolute(problem: LinearProblem, prev: Kept | undefined, options: FitOptions, bounds: RowBounds): Kept {
   const { n } = problem;
   const v = prev?.vertex;
+  let refFailed = false;
   if (prev && v && prev.n <= n && !options.warmStart) {
     const next = extendVertex(v, problem, prev.n);
     const test = dualTest(next, n);
     if (test.ok) return withReference({ result: vertexKept(problem, prev.result, next, test.maxDual, n - prev.n), n, vertex: next }, prev);
+    const ref = prev.sorted;
+    if (ref && ref.rows <= n && n - ref.rows <= SCALE_REFERENCE_MAX_ADDED && prev.result.status === 'ok') {
+      const refit = refitFromReference(problem, prev.result, ref, bounds, options.maxIterations);
+      if (refit) return withReference({ result: refit.result, n, vertex: refit.vertex }, prev);
+      refFailed = true;
+    }
   }
   // The fitter hands back its vertex's side sum when its band proof holds: no pass to rebuild g.
   const { result, sides } = fitLeastAbsoluteWithSides(problem, { ...options, warmStart: options.warmStart ?? l1WarmStart(prev?.result) });
   const vertex = result.status === 'ok' && result.basis ? vertexState(problem, result.coefficients, result.basis, sides) : undefined;
-  return withReference(vertex ? { result, n, vertex } : { result, n }, prev);
+  const kept = withReference(vertex ? { result, n, vertex } : { result, n }, prev);
+  // A failed refit from the reference: usually the fit has moved far from β_ref, re-sort at the new fit.
+  const stale = refFailed || !kept.sorted || n - kept.sorted.rows > SCALE_REFERENCE_MAX_ADDED || kept.sorted.rows > n;
+  if (stale && result.status === 'ok' && n <= SCALE_REFERENCE_MAX_ROWS) kept.sorted = sortResiduals(problem, result.coefficients);
+  return kept;
 }
 
 /** The sorted residual reference stays valid for any β (its reach grows with the distance): carried on. */
@@ -339,18 +357,16 @@ function withReference(kept: Kept, prev: Kept | undefined): Kept {
 /**
  * The L1 fit's MAD scale over all rows, from the sorted reference the session keeps
  * (fit-session-scale.ts): residuals of its rows at β_ref, each having moved by at most
- * √w_max·Σⱼ max|xⱼ|·|βⱼ − β_refⱼ| since (0 while the vertex holds), plus the rounding of a residual
- * of readings up to max|y| (64ε of it: far above the few ulps of y − xᵀβ). Without a usable
+ * √w_max·Σⱼ max|xⱼ|·|βⱼ − β_refⱼ| since (0 while the vertex holds), plus rounding
+ * (fit-session-bounds.ts). Without a usable
  * reference a new one is sorted (O(n log n), not above SCALE_REFERENCE_MAX_ROWS); beyond that the
  * L1 result's own scale, a selection.
  */
 function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined, bounds: RowBounds): { scale: number; how: string } {
   const beta = l1.result.coefficients;
-  const ref = l1Prev?.sorted;
+  const ref = l1.sorted ?? l1Prev?.sorted;
   if (ref && ref.rows <= problem.n) {
-    let reach = 0;
-    for (let j = 0; j < beta.length; j++) reach += bounds.colAbsMax[j] * Math.abs(beta[j] - ref.beta[j]);
-    reach = bounds.sqrtWMax * (reach + 64 * Number.EPSILON * (bounds.yAbsMax + reach));
+    const reach = reachBetween(bounds, beta, ref.beta);
     const scale = madFromReference(problem, beta, ref, reach);
     if (scale !== null) {
       l1.sorted = ref;
@@ -362,21 +378,6 @@ function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined
     return { scale: madOfSorted(l1.sorted.values), how: 'its residuals sorted as the reference for later refits' };
   }
   return { scale: l1.result.scale, how: 'by selection' };
-}
-
-interface RowBounds {
-  colAbsMax: Float64Array;
-  sqrtWMax: number;
-  yAbsMax: number;
-}
-
-function widenBounds(b: RowBounds, problem: LinearProblem, from: number): void {
-  const { n, p, X, y, weights } = problem;
-  for (let i = from; i < n; i++) {
-    for (let j = 0; j < p; j++) b.colAbsMax[j] = Math.max(b.colAbsMax[j], Math.abs(X[i * p + j]));
-    b.sqrtWMax = Math.max(b.sqrtWMax, weights ? Math.sqrt(weights[i]) : 1);
-    b.yAbsMax = Math.max(b.yAbsMax, Math.abs(y[i]));
-  }
 }
 
 /** The previous L1 answer as a warm start (coefficients and vertex). */

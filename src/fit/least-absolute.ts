@@ -223,7 +223,7 @@ function warmSeed(problem: LinearProblem, frame: ColumnFrame, sub: CompactLeastA
  * vertex solved in the frame carries an absolute error of ε times that distance; one step
  * brings the basis rows to interpolation at the rounding of their own magnitude (GVL §3.5.3).
  */
-function refineVertex(problem: LinearProblem, frame: ColumnFrame, beta: Float64Array, basis: Int32Array): Float64Array {
+export function refineVertex(problem: LinearProblem, frame: ColumnFrame, beta: Float64Array, basis: Int32Array): Float64Array {
   const { p, X, y, weights } = problem;
   const { L } = frame;
   const AB = new Float64Array(p * p);
