@@ -61,25 +61,45 @@ function monomials(p: number, d: number): Monomials {
   return m;
 }
 
-/** moments[q − 1][e]: B(q, e, μ) for the monomials μ of degree 2q − e. */
-type Moments = Float64Array[][];
+/**
+ * All moments B(q, e, μ) in one flat array: block (q, e) starts at offsets[q − 1][e] and holds the
+ * monomials μ of degree 2q − e in the order of monomials(p, 2q − e).
+ */
+type Moments = Float64Array;
 
-function emptyMoments(p: number): Moments {
-  const out: Moments = [];
-  for (let q = 1; q <= 3; q++) {
-    const row: Float64Array[] = [];
-    for (let e = 0; e <= 2 * q; e++) row.push(new Float64Array(monomials(p, 2 * q - e).list.length));
-    out.push(row);
-  }
-  return out;
+interface Layout {
+  offsets: number[][];
+  size: number;
 }
 
-function copyMoments(m: Moments): Moments {
-  return m.map((row) => row.map((a) => Float64Array.from(a)));
+const layoutCache = new Map<number, Layout>();
+
+function layoutOf(p: number): Layout {
+  let l = layoutCache.get(p);
+  if (!l) {
+    const offsets: number[][] = [];
+    let size = 0;
+    for (let q = 1; q <= 3; q++) {
+      const row: number[] = [];
+      for (let e = 0; e <= 2 * q; e++) {
+        row.push(size);
+        size += monomials(p, 2 * q - e).list.length;
+      }
+      offsets.push(row);
+    }
+    l = { offsets, size };
+    layoutCache.set(p, l);
+  }
+  return l;
+}
+
+function emptyMoments(p: number): Moments {
+  return new Float64Array(layoutOf(p).size);
 }
 
 /** Adds (sign = +1) or removes (−1) one inside row's moments. */
 function applyRow(m: Moments, x: ArrayLike<number>, p: number, r0: number, w: number, sign: number): void {
+  const { offsets } = layoutOf(p);
   // powers[j·7 + k] = x_j^k, k ≤ 6
   const powers = new Float64Array(p * 7);
   for (let j = 0; j < p; j++) {
@@ -92,12 +112,12 @@ function applyRow(m: Moments, x: ArrayLike<number>, p: number, r0: number, w: nu
     let re = wq;
     for (let e = 0; e <= 2 * q; e++) {
       const { list } = monomials(p, 2 * q - e);
-      const acc = m[q - 1][e];
+      const off = offsets[q - 1][e];
       for (let t = 0; t < list.length; t++) {
         const mu = list[t];
         let v = re;
         for (let j = 0; j < p; j++) v *= powers[j * 7 + mu[j]];
-        acc[t] += v;
+        m[off + t] += v;
       }
       re *= r0;
     }
@@ -114,80 +134,118 @@ function binomial(m: number, l: number): number {
   return factorial(m) / (factorial(l) * factorial(m - l));
 }
 
-/** One term of S(q, m, γ): coefficient × δ^α × B(q, e, ·)[index]. */
-interface PlanTerm {
-  e: number;
-  index: number;
-  coef: number;
-  alpha: Int8Array;
+/**
+ * The sums one Newton step needs, compiled once per p into flat arrays (the step runs a few times
+ * per refit: string-keyed plan lookups and per-term objects were half of a refit's time).
+ * S(q, m, γ) = Σ_inside w^q x^γ (r⁰ − xᵀδ)^m from the moments:
+ * Σ_l C(m, l)(−1)^l Σ_{|α| = l} (l!/α!) δ^α B(q, m − l, γ + α), with m + |γ| = 2q. Sum k's terms are
+ * [start[k], start[k + 1]): moment index, coefficient, and which δ^α (alphas, every |α| ≤ 6, each
+ * evaluated once per step: the terms then cost two multiplications each, ~16 → ~3 ns a term).
+ * Sums in order: for each j, F's (q, m) = (1, 1), (2, 3), (3, 5) at γ = eⱼ; for each k ≥ j, M's
+ * (1, 0), (2, 2), (3, 4) at γ = eⱼ + e_k; then Σρ's (1, 2), (2, 4), (3, 6) at γ = 0.
+ */
+interface Program {
+  start: Int32Array;
+  index: Int32Array;
+  coef: Float64Array;
+  alpha: Int32Array;
+  /** Exponents of the δ monomials, p per monomial. */
+  alphas: Int32Array;
 }
 
-const planCache = new Map<string, PlanTerm[]>();
+const programCache = new Map<number, Program>();
 
-/**
- * S(q, m, γ) = Σ_inside w^q x^γ (r⁰ − xᵀδ)^m from the moments:
- * Σ_l C(m, l)(−1)^l Σ_{|α| = l} (l!/α!) δ^α B(q, m − l, γ + α), with m + |γ| = 2q. The terms
- * (which moment, which coefficient) depend only on p, q, m and γ: planned once and cached.
- */
-function plan(p: number, q: number, m: number, gamma: ArrayLike<number>): PlanTerm[] {
-  const key = `${p}:${q}:${m}:${Array.from(gamma).join(',')}`;
-  let terms = planCache.get(key);
-  if (!terms) {
-    terms = [];
+function programOf(p: number): Program {
+  let prog = programCache.get(p);
+  if (prog) return prog;
+  const { offsets } = layoutOf(p);
+  const start: number[] = [0];
+  const index: number[] = [];
+  const coef: number[] = [];
+  const alpha: number[] = [];
+  const alphas: number[] = [];
+  const alphaAt = new Map<string, number>();
+  const addSum = (q: number, m: number, gamma: number[]): void => {
     for (let l = 0; l <= m; l++) {
       const e = m - l;
       const target = monomials(p, 2 * q - e);
       const cl = binomial(m, l) * (l % 2 === 0 ? 1 : -1) * factorial(l);
-      for (const alpha of monomials(p, l).list) {
-        let coef = cl;
+      for (const a of monomials(p, l).list) {
+        let c = cl;
         const mu: number[] = [];
         for (let j = 0; j < p; j++) {
-          coef /= factorial(alpha[j]);
-          mu.push(gamma[j] + alpha[j]);
+          c /= factorial(a[j]);
+          mu.push(gamma[j] + a[j]);
         }
-        terms.push({ e, index: target.index.get(mu.join(',')) as number, coef, alpha });
+        const key = a.join(',');
+        if (!alphaAt.has(key)) {
+          alphaAt.set(key, alphaAt.size);
+          alphas.push(...a);
+        }
+        alpha.push(alphaAt.get(key) as number);
+        index.push(offsets[q - 1][e] + (target.index.get(mu.join(',')) as number));
+        coef.push(c);
       }
     }
-    planCache.set(key, terms);
+    start.push(index.length);
+  };
+  const unit = (...js: number[]): number[] => {
+    const g = new Array<number>(p).fill(0);
+    for (const j of js) g[j] += 1;
+    return g;
+  };
+  for (let j = 0; j < p; j++) {
+    for (const [q, m] of [[1, 1], [2, 3], [3, 5]]) addSum(q, m, unit(j));
+    for (let k = j; k < p; k++) for (const [q, m] of [[1, 0], [2, 2], [3, 4]]) addSum(q, m, unit(j, k));
   }
-  return terms;
+  for (const [q, m] of [[1, 2], [2, 4], [3, 6]]) addSum(q, m, unit());
+  prog = { start: Int32Array.from(start), index: Int32Array.from(index), coef: Float64Array.from(coef), alpha: Int32Array.from(alpha), alphas: Int32Array.from(alphas) };
+  programCache.set(p, prog);
+  return prog;
 }
 
-function polySum(mom: Moments, p: number, q: number, m: number, gamma: ArrayLike<number>, deltaPowers: Float64Array): number {
-  let total = 0;
-  for (const t of plan(p, q, m, gamma)) {
-    let v = t.coef * mom[q - 1][t.e][t.index];
-    for (let j = 0; j < p; j++) v *= deltaPowers[j * 7 + t.alpha[j]];
-    total += v;
+/** The program's sums (a small kernel of its own, optimised whole: see least-absolute-descent.ts on on-stack replacement). */
+function programSums(start: Int32Array, index: Int32Array, coef: Float64Array, alpha: Int32Array, mom: Moments, da: Float64Array, sums: Float64Array): void {
+  for (let k = 0; k < sums.length; k++) {
+    let total = 0;
+    for (let t = start[k]; t < start[k + 1]; t++) total += coef[t] * mom[index[t]] * da[alpha[t]];
+    sums[k] = total;
   }
-  return total;
 }
 
 /** F = Σ√wψ(u)x (p), M = Σwψ′(u)xxᵀ (p×p) and the inside Σρ at δ, scale s, tuning c. */
 function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: number): { F: Float64Array; M: Float64Array; rho: number } {
+  const { start, index, coef, alpha, alphas } = programOf(p);
   const c2 = c * c;
-  const F = new Float64Array(p);
-  const M = new Float64Array(p * p);
-  const g = new Array<number>(p).fill(0);
-  // δⱼ^k for k ≤ 6, shared by every polynomial below.
+  // δⱼ^k for k ≤ 6, shared by every polynomial.
   const dp = new Float64Array(p * 7);
   for (let j = 0; j < p; j++) {
     dp[j * 7] = 1;
     for (let k = 1; k <= 6; k++) dp[j * 7 + k] = dp[j * 7 + k - 1] * delta[j];
   }
+  const count = alphas.length / p;
+  const da = new Float64Array(count);
+  for (let a = 0; a < count; a++) {
+    let v = 1;
+    for (let j = 0; j < p; j++) v *= dp[j * 7 + alphas[a * p + j]];
+    da[a] = v;
+  }
+  const sums = new Float64Array(start.length - 1);
+  programSums(start, index, coef, alpha, mom, da, sums);
+  const F = new Float64Array(p);
+  const M = new Float64Array(p * p);
+  let at = 0;
   for (let j = 0; j < p; j++) {
-    g[j] = 1;
-    F[j] = polySum(mom, p, 1, 1, g, dp) / s - (2 * polySum(mom, p, 2, 3, g, dp)) / (c2 * s ** 3) + polySum(mom, p, 3, 5, g, dp) / (c2 * c2 * s ** 5);
+    F[j] = sums[at] / s - (2 * sums[at + 1]) / (c2 * s ** 3) + sums[at + 2] / (c2 * c2 * s ** 5);
+    at += 3;
     for (let k = j; k < p; k++) {
-      g[k] += 1;
-      const v = polySum(mom, p, 1, 0, g, dp) - (6 * polySum(mom, p, 2, 2, g, dp)) / (c2 * s * s) + (5 * polySum(mom, p, 3, 4, g, dp)) / (c2 * c2 * s ** 4);
+      const v = sums[at] - (6 * sums[at + 1]) / (c2 * s * s) + (5 * sums[at + 2]) / (c2 * c2 * s ** 4);
+      at += 3;
       M[j * p + k] = v;
       M[k * p + j] = v;
-      g[k] -= 1;
     }
-    g[j] = 0;
   }
-  const rho = polySum(mom, p, 1, 2, g, dp) / (2 * s * s) - polySum(mom, p, 2, 4, g, dp) / (2 * c2 * s ** 4) + polySum(mom, p, 3, 6, g, dp) / (6 * c2 * c2 * s ** 6);
+  const rho = sums[at] / (2 * s * s) - sums[at + 1] / (2 * c2 * s ** 4) + sums[at + 2] / (6 * c2 * c2 * s ** 6);
   return { F, M, rho };
 }
 
@@ -299,7 +357,7 @@ export function refitTukeyKept(problem: LinearProblem, kept: TukeyKept, s: numbe
   const { n, p, X } = problem;
   const { c, base, s0, margin } = kept;
   if (rho.tuning !== c || n < kept.rows || n - kept.baseRows > TUKEY_KEPT_MAX_ADDED) return null;
-  const moments = copyMoments(kept.moments);
+  const moments = Float64Array.from(kept.moments);
   const colAbsMax = Float64Array.from(kept.colAbsMax);
   let sqrtWMax = kept.sqrtWMax;
   const listed = new Int32Array(kept.listed.length + n - kept.rows);
