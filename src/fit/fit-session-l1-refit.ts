@@ -27,8 +27,8 @@ import { residualsOf } from './problem.ts';
 import { buildFrame, frameVector, gatherFrameRows, rawCoefficients } from './simplex-frame.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import { reachBetween, type RowBounds } from './fit-session-bounds.ts';
-import type { SortedResiduals } from './fit-session-scale.ts';
-import { dualTest, vertexState, type L1Vertex } from './fit-session-vertex.ts';
+import { bound, type SortedResiduals } from './fit-session-scale.ts';
+import { dualTest, gamma, vertexState, type L1Vertex } from './fit-session-vertex.ts';
 import type { FitResult, LinearProblem } from './types.ts';
 
 /** Old rows each side of zero in the first window (a few pivots' worth of rows near the fit). */
@@ -49,39 +49,10 @@ interface Window {
 /** The run of sorted values within [−W, W] and the pinned rows' smallest |ρ̃|. */
 function windowOf(ref: SortedResiduals, W: number): Window {
   const v = ref.values;
-  const lo = lowerBound(v, -W);
-  const hi = upperBound(v, W);
+  const lo = bound(v, -W, false);
+  const hi = bound(v, W, true);
   const margin = Math.min(lo > 0 ? -v[lo - 1] : Infinity, hi < v.length ? v[hi] : Infinity);
   return { W, lo, hi, margin };
-}
-
-/** First index with v[t] ≥ x. */
-function lowerBound(v: Float64Array, x: number): number {
-  let a = 0;
-  let b = v.length;
-  while (a < b) {
-    const mid = (a + b) >> 1;
-    if (v[mid] < x) a = mid + 1;
-    else b = mid;
-  }
-  return a;
-}
-
-/** First index with v[t] > x. */
-function upperBound(v: Float64Array, x: number): number {
-  let a = 0;
-  let b = v.length;
-  while (a < b) {
-    const mid = (a + b) >> 1;
-    if (v[mid] <= x) a = mid + 1;
-    else b = mid;
-  }
-  return a;
-}
-
-/** γ_k = kε/(1 − kε) (Higham, §3.1). */
-function gamma(k: number): number {
-  return (k * Number.EPSILON) / (1 - k * Number.EPSILON);
 }
 
 /**
@@ -119,7 +90,7 @@ export function refitFromReference(problem: LinearProblem, prev: FitResult, ref:
   const { n } = problem;
   if (ref.rows > n || ref.rows === 0 || !prev.basis || prev.basis.length !== problem.p) return null;
   const v = ref.values;
-  const zero = lowerBound(v, 0);
+  const zero = bound(v, 0, false);
   const near = Math.max(zero > WINDOW_ROWS ? -v[zero - WINDOW_ROWS] : 0, zero + WINDOW_ROWS - 1 < v.length ? v[zero + WINDOW_ROWS - 1] : 0);
   let W = Math.max(near, 2 * reachBetween(bounds, prev.coefficients, ref.beta));
   // A second window when the answer moved past the first one's pins.

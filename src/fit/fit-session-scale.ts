@@ -98,7 +98,7 @@ function runningSums(problem: LinearProblem, values: Float64Array, order: Int32A
 }
 
 /** Index of the first value ≥ v (strict = false) or > v (strict = true) in a[from..to). */
-function bound(a: Float64Array, v: number, strict: boolean, from = 0, to = a.length): number {
+export function bound(a: Float64Array, v: number, strict: boolean, from = 0, to = a.length): number {
   let lo = from;
   let hi = to;
   while (lo < hi) {

@@ -114,7 +114,7 @@ export function extendVertex(v: L1Vertex, problem: LinearProblem, from: number):
 }
 
 /** γ_k = kε/(1 − kε) (Higham, "Accuracy and Stability of Numerical Algorithms", §3.1). */
-function gamma(k: number): number {
+export function gamma(k: number): number {
   return (k * Number.EPSILON) / (1 - k * Number.EPSILON);
 }
 
