@@ -26,6 +26,7 @@ import { descentCap, refineVertex } from './least-absolute.ts';
 import { residualsOf } from './problem.ts';
 import { buildFrame, frameVector, gatherFrameRows, rawCoefficients } from './simplex-frame.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
+import { scratchFloat64, scratchInt32 } from './scratch.ts';
 import { reachBetween, type RowBounds } from './fit-session-bounds.ts';
 import { bound, type SortedResiduals } from './fit-session-scale.ts';
 import { dualTest, gamma, vertexState, type L1Vertex } from './fit-session-vertex.ts';
@@ -92,7 +93,7 @@ export function refitFromReference(problem: LinearProblem, prev: FitResult, ref:
   const v = ref.values;
   const zero = bound(v, 0, false);
   const near = Math.max(zero > WINDOW_ROWS ? -v[zero - WINDOW_ROWS] : 0, zero + WINDOW_ROWS - 1 < v.length ? v[zero + WINDOW_ROWS - 1] : 0);
-  let W = Math.max(near, 2 * reachBetween(bounds, prev.coefficients, ref.beta));
+  let W = Math.max(near, 2 * reachBetween(bounds, prev.coefficients, ref.beta, ref.frame));
   // A second window when the answer moved past the first one's pins.
   for (let attempt = 0; attempt < 2; attempt++) {
     const win = windowOf(ref, W);
@@ -112,19 +113,20 @@ function solveWindow(
   const q = p + 1;
   const oldCount = win.hi - win.lo;
   const m = oldCount + (n - ref.rows);
-  const rows = new Int32Array(m);
+  // Scratch (scratch.ts): allocating these few-hundred-entry arrays costs more than solving on them.
+  const rows = scratchInt32('l1-refit.rows', m);
   rows.set(ref.order.subarray(win.lo, win.hi));
   for (let i = ref.rows; i < n; i++) rows[oldCount + i - ref.rows] = i;
 
   const pinned = pinnedSums(ref, win, q);
   const P = pinned.sum.subarray(1);
   const frame = buildFrame(problem, rows, m, prev.coefficients);
-  const A = new Float64Array(m * p);
-  const b = new Float64Array(m);
+  const A = scratchFloat64('l1-refit.A', m * p);
+  const b = scratchFloat64('l1-refit.b', m);
   gatherFrameRows(problem, frame, rows, m, A, b);
   const c = frameVector(frame, P).map((t) => -t);
   const cp: CompactLeastAbsolute = { m, p, A, b, c };
-  const start: DescentStart = { gamma: new Float64Array(p) };
+  const start: DescentStart = { gamma: new Float64Array(p), reuse: true };
   const at = positionsOf(prev.basis as Int32Array, rows);
   if (at) start.basis = at;
   const res = descendLeastAbsolute(cp, start, cap ?? descentCap(m, p));
@@ -133,7 +135,7 @@ function solveWindow(
   const beta = refineVertex(problem, frame, rawCoefficients(frame, res.gamma), basis);
 
   // The pins hold: every pinned row's residual moved less than its distance from zero.
-  const reach = reachBetween(bounds, beta, ref.beta);
+  const reach = reachBetween(bounds, beta, ref.beta, ref.frame);
   if (!(reach < win.margin)) return { reach };
 
   // g over all rows at the new vertex, the candidates' sides from their raw residuals (the

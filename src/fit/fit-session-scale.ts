@@ -15,6 +15,7 @@
 // |ρ − m| moved by at most reach + |m − m_ref|, and the old rows with a given range of deviations
 // are two runs of the sorted array (left and right of m_ref): the same steps give the deviation
 // median. O(log n + rows near the windows + a) per refit; exact, as values are only compared.
+import { buildReachFrame, type ReachFrame } from './fit-session-bounds.ts';
 import { residualsRange } from './problem.ts';
 import { MAD_CONSISTENCY } from './robust-scale.ts';
 import type { LinearProblem } from './types.ts';
@@ -43,6 +44,8 @@ export interface SortedResiduals {
   readonly prefixLo: Float64Array;
   /** Σ|·| of each of the p + 1 columns over all rows: the scale of the running sums' rounding bound. */
   readonly absTotal: Float64Array;
+  /** Its rows in a whitening frame, for a tight reach (fit-session-bounds.ts); null when too collinear. */
+  readonly frame: ReachFrame | null;
 }
 
 /** √wᵢ(yᵢ − xᵢᵀβ) of one row, the arithmetic of residualsRange for p = 2, 3 and of its general loop otherwise. */
@@ -56,7 +59,7 @@ function residualOf(problem: LinearProblem, beta: Float64Array, i: number): numb
   return sw * r;
 }
 
-/** Every row's whitened residual at β, sorted with its row: O(n log n), paid when a reference is (re)built. */
+/** Every row's whitened residual at β, sorted with its row, and the rows' frame: O(n log n), paid when a reference is (re)built. */
 export function sortResiduals(problem: LinearProblem, beta: Float64Array): SortedResiduals {
   const { n, weights } = problem;
   const rho = residualsRange(problem, beta, 0, n, new Float64Array(n));
@@ -67,7 +70,7 @@ export function sortResiduals(problem: LinearProblem, beta: Float64Array): Sorte
   const values = new Float64Array(n);
   for (let t = 0; t < n; t++) values[t] = rho[order[t]];
   const { prefix, prefixLo, absTotal } = runningSums(problem, values, order);
-  return { beta: Float64Array.from(beta), values, order, rows: n, prefix, prefixLo, absTotal };
+  return { beta: Float64Array.from(beta), values, order, rows: n, prefix, prefixLo, absTotal, frame: buildReachFrame(problem, n) };
 }
 
 /** The running sums of SortedResiduals: O(n·p), paid with the sort. */

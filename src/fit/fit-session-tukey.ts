@@ -17,7 +17,6 @@
 // minimum), and it is the one next to the previous answer, which is what the plain warm refit
 // (irls.ts, Newton from the previous answer) also converges to. Any failure: the plain fitter.
 import { defineCachedField } from './cached-field.ts';
-import { factorLu, solveLu } from './linear-solve.ts';
 import { mEstimateCovariance } from './m-covariance.ts';
 import { residualsOf } from './problem.ts';
 import type { RhoFunction } from './rho-function.ts';
@@ -69,6 +68,8 @@ type Moments = Float64Array;
 
 interface Layout {
   offsets: number[][];
+  /** The monomials of each block, lists[q − 1][e] = monomials(p, 2q − e).list (looked up once, not per row). */
+  lists: Int8Array[][][];
   size: number;
 }
 
@@ -78,16 +79,21 @@ function layoutOf(p: number): Layout {
   let l = layoutCache.get(p);
   if (!l) {
     const offsets: number[][] = [];
+    const lists: Int8Array[][][] = [];
     let size = 0;
     for (let q = 1; q <= 3; q++) {
       const row: number[] = [];
+      const blocks: Int8Array[][] = [];
       for (let e = 0; e <= 2 * q; e++) {
         row.push(size);
-        size += monomials(p, 2 * q - e).list.length;
+        const { list } = monomials(p, 2 * q - e);
+        blocks.push(list);
+        size += list.length;
       }
       offsets.push(row);
+      lists.push(blocks);
     }
-    l = { offsets, size };
+    l = { offsets, lists, size };
     layoutCache.set(p, l);
   }
   return l;
@@ -97,11 +103,15 @@ function emptyMoments(p: number): Moments {
   return new Float64Array(layoutOf(p).size);
 }
 
+/** applyRow's powers, reused (an off-heap allocation per row would cost more than the row: see EvalWork). */
+let rowPowers = new Float64Array(3 * 7);
+
 /** Adds (sign = +1) or removes (−1) one inside row's moments. */
 function applyRow(m: Moments, x: ArrayLike<number>, p: number, r0: number, w: number, sign: number): void {
-  const { offsets } = layoutOf(p);
+  const { offsets, lists } = layoutOf(p);
   // powers[j·7 + k] = x_j^k, k ≤ 6
-  const powers = new Float64Array(p * 7);
+  if (rowPowers.length < p * 7) rowPowers = new Float64Array(p * 7);
+  const powers = rowPowers;
   for (let j = 0; j < p; j++) {
     powers[j * 7] = 1;
     for (let k = 1; k <= 6; k++) powers[j * 7 + k] = powers[j * 7 + k - 1] * x[j];
@@ -111,7 +121,7 @@ function applyRow(m: Moments, x: ArrayLike<number>, p: number, r0: number, w: nu
     wq *= w;
     let re = wq;
     for (let e = 0; e <= 2 * q; e++) {
-      const { list } = monomials(p, 2 * q - e);
+      const list = lists[q - 1][e];
       const off = offsets[q - 1][e];
       for (let t = 0; t < list.length; t++) {
         const mu = list[t];
@@ -213,27 +223,53 @@ function programSums(start: Int32Array, index: Int32Array, coef: Float64Array, a
   }
 }
 
-/** F = Σ√wψ(u)x (p), M = Σwψ′(u)xxᵀ (p×p) and the inside Σρ at δ, scale s, tuning c. */
-function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: number): { F: Float64Array; M: Float64Array; rho: number } {
+/**
+ * Work arrays of one Newton evaluation, one set per p, reused by every step: a typed array over 64
+ * bytes lives outside V8's heap and costs ~1–2 µs to allocate (scratch.ts), as much as a step's
+ * arithmetic. Only `newton` reads them, and nothing it returns is one of them.
+ */
+interface EvalWork {
+  dp: Float64Array;
+  da: Float64Array;
+  sums: Float64Array;
+  F: Float64Array;
+  M: Float64Array;
+  L: Float64Array;
+  step: Float64Array;
+}
+
+const workCache = new Map<number, EvalWork>();
+
+function workOf(p: number): EvalWork {
+  let w = workCache.get(p);
+  if (!w) {
+    const { start, alphas } = programOf(p);
+    w = {
+      dp: new Float64Array(p * 7), da: new Float64Array(alphas.length / p), sums: new Float64Array(start.length - 1),
+      F: new Float64Array(p), M: new Float64Array(p * p), L: new Float64Array(p * p), step: new Float64Array(p),
+    };
+    workCache.set(p, w);
+  }
+  return w;
+}
+
+/** Into work.F = Σ√wψ(u)x (p) and work.M = Σwψ′(u)xxᵀ (p×p) at δ, scale s, tuning c; returns the inside Σρ. */
+function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: number, work: EvalWork): number {
   const { start, index, coef, alpha, alphas } = programOf(p);
+  const { dp, da, sums, F, M } = work;
   const c2 = c * c;
   // δⱼ^k for k ≤ 6, shared by every polynomial.
-  const dp = new Float64Array(p * 7);
   for (let j = 0; j < p; j++) {
     dp[j * 7] = 1;
     for (let k = 1; k <= 6; k++) dp[j * 7 + k] = dp[j * 7 + k - 1] * delta[j];
   }
   const count = alphas.length / p;
-  const da = new Float64Array(count);
   for (let a = 0; a < count; a++) {
     let v = 1;
     for (let j = 0; j < p; j++) v *= dp[j * 7 + alphas[a * p + j]];
     da[a] = v;
   }
-  const sums = new Float64Array(start.length - 1);
   programSums(start, index, coef, alpha, mom, da, sums);
-  const F = new Float64Array(p);
-  const M = new Float64Array(p * p);
   let at = 0;
   for (let j = 0; j < p; j++) {
     F[j] = sums[at] / s - (2 * sums[at + 1]) / (c2 * s ** 3) + sums[at + 2] / (c2 * c2 * s ** 5);
@@ -245,13 +281,15 @@ function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: nu
       M[k * p + j] = v;
     }
   }
-  const rho = sums[at] / (2 * s * s) - sums[at + 1] / (2 * c2 * s ** 4) + sums[at + 2] / (6 * c2 * c2 * s ** 6);
-  return { F, M, rho };
+  return sums[at] / (2 * s * s) - sums[at + 1] / (2 * c2 * s ** 4) + sums[at + 2] / (6 * c2 * c2 * s ** 6);
 }
 
-/** Positive definite by Cholesky (a local minimum of Σρ, whose Hessian is M/s²). */
-function positiveDefinite(M: Float64Array, p: number): boolean {
-  const L = new Float64Array(p * p);
+/**
+ * Solves M·x = F into `out` by Cholesky (Golub & Van Loan, "Matrix Computations", 4th ed., §4.2),
+ * false when M is not positive definite: the test that the limit is a local minimum of Σρ (whose
+ * Hessian is M/s²) and the step's solve in one factorisation.
+ */
+function solvePositiveDefinite(M: Float64Array, F: Float64Array, p: number, L: Float64Array, out: Float64Array): boolean {
   for (let j = 0; j < p; j++) {
     for (let k = 0; k <= j; k++) {
       let v = M[j * p + k];
@@ -261,6 +299,16 @@ function positiveDefinite(M: Float64Array, p: number): boolean {
         L[j * p + j] = Math.sqrt(v);
       } else L[j * p + k] = v / L[k * p + k];
     }
+  }
+  for (let j = 0; j < p; j++) {
+    let v = F[j];
+    for (let t = 0; t < j; t++) v -= L[j * p + t] * out[t];
+    out[j] = v / L[j * p + j];
+  }
+  for (let j = p - 1; j >= 0; j--) {
+    let v = out[j];
+    for (let t = j + 1; t < p; t++) v -= L[t * p + j] * out[t];
+    out[j] = v / L[j * p + j];
   }
   return true;
 }
@@ -334,20 +382,20 @@ export function buildTukeyKept(problem: LinearProblem, beta: Float64Array, s0: n
 }
 
 /** Newton on the moments from δ; null when it does not converge to a local minimum. */
-function newton(mom: Moments, p: number, start: Float64Array, base: Float64Array, s: number, c: number): { delta: Float64Array; steps: number; rho: number; M: Float64Array } | null {
+function newton(mom: Moments, p: number, start: Float64Array, base: Float64Array, s: number, c: number): { delta: Float64Array; steps: number; rho: number } | null {
   const delta = Float64Array.from(start);
+  const work = workOf(p);
+  const { F, M, L, step } = work;
   for (let it = 1; it <= MAX_NEWTON; it++) {
-    const { F, M, rho } = evaluate(mom, p, delta, s, c);
-    const f = factorLu(M, p);
-    if (f.singular || !positiveDefinite(M, p)) return null;
+    const rho = evaluate(mom, p, delta, s, c, work);
     // F(β) = Σ√wψx = 0; ∂F/∂β = −M/s, so the Newton step is δ += s·M⁻¹F.
-    const step = solveLu(f, F);
+    if (!solvePositiveDefinite(M, F, p, L, step)) return null;
     let change = 0;
     for (let j = 0; j < p; j++) {
       delta[j] += s * step[j];
       change = Math.max(change, Math.abs(s * step[j]) / Math.max(Math.abs(base[j] + delta[j]), s));
     }
-    if (change <= STEP_TOL) return { delta, steps: it, rho, M };
+    if (change <= STEP_TOL) return { delta, steps: it, rho };
   }
   return null;
 }

@@ -365,7 +365,7 @@ function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined
   const beta = l1.result.coefficients;
   const ref = l1.sorted ?? l1Prev?.sorted;
   if (ref && ref.rows <= problem.n) {
-    const reach = reachBetween(bounds, beta, ref.beta);
+    const reach = reachBetween(bounds, beta, ref.beta, ref.frame);
     const scale = madFromReference(problem, beta, ref, reach);
     if (scale !== null) {
       l1.sorted = ref;

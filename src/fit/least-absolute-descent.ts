@@ -37,6 +37,7 @@
 // and measured here to fall back to the interpreter at that tail on every call.
 import { factorLu, orthonormalComplement, solveLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
 import { createSelectScratch, selectBreakpoint, selectCumulative, type SelectScratch } from './least-absolute-line-search.ts';
+import { scratchFloat64, scratchInt32, scratchInt8, scratchUint8 } from './scratch.ts';
 
 export interface CompactLeastAbsolute {
   readonly m: number;
@@ -53,6 +54,12 @@ export interface DescentStart {
   gamma?: Float64Array;
   /** p compact rows to try as the first vertex (e.g. the optimal basis of a previous solve). */
   basis?: Int32Array;
+  /**
+   * Take the m-sized work arrays from scratch.ts instead of allocating them (for small, frequent
+   * solves: the fit session's refit). The result's `sign` and `residuals` are then scratch views,
+   * dead at the next descent that reuses: the caller must not keep them.
+   */
+  reuse?: boolean;
 }
 
 export type DescentStatus = 'optimal' | 'unbounded' | 'degenerate-direction' | 'iteration-cap';
@@ -250,13 +257,20 @@ interface State {
 
 function createState(cp: CompactLeastAbsolute, start: DescentStart): State {
   const { m, p, A, b, c } = cp;
+  const reuse = start.reuse === true;
+  // Reused slots are cleared to what a fresh array holds, so both routes start alike.
   return {
     m, p, A, b, c,
-    rho: new Float64Array(m), sign: new Int8Array(m).fill(1), V: new Float64Array(m),
-    keys: new Float64Array(m), weights: new Float64Array(m), ids: new Int32Array(m), scratch: createSelectScratch(m),
+    rho: reuse ? scratchFloat64('descent.rho', m).fill(0) : new Float64Array(m),
+    sign: (reuse ? scratchInt8('descent.sign', m) : new Int8Array(m)).fill(1),
+    V: reuse ? scratchFloat64('descent.V', m).fill(0) : new Float64Array(m),
+    keys: reuse ? scratchFloat64('descent.keys', m).fill(0) : new Float64Array(m),
+    weights: reuse ? scratchFloat64('descent.weights', m).fill(0) : new Float64Array(m),
+    ids: reuse ? scratchInt32('descent.ids', m).fill(0) : new Int32Array(m),
+    scratch: createSelectScratch(m, reuse),
     g: new Float64Array(p), d: new Float64Array(p), dPrev: new Float64Array(p),
     gamma: start.gamma ? Float64Array.from(start.gamma) : new Float64Array(p),
-    inBasis: new Uint8Array(m), basis: new Int32Array(p), AB: new Float64Array(p * p), bB: new Float64Array(p),
+    inBasis: reuse ? scratchUint8('descent.inBasis', m).fill(0) : new Uint8Array(m), basis: new Int32Array(p), AB: new Float64Array(p * p), bB: new Float64Array(p),
     sums: new Float64Array(2),
   };
 }

@@ -10,6 +10,8 @@
 // adds the weights of whole partitions, so the answer is the true weighted quantile whatever the
 // order of the input.
 
+import { scratchFloat64, scratchInt32 } from './scratch.ts';
+
 /**
  * Rearranges keys[0..count) (with `weights` and `ids` moved alongside) and returns the position j
  * of the first element, in increasing key order, at which the running sum of weights reaches
@@ -108,8 +110,15 @@ export interface SelectScratch {
   sampleIds: Int32Array;
 }
 
-export function createSelectScratch(capacity: number): SelectScratch {
+/** Fresh buffers, or (reuse) views of scratch.ts slots; both are only ever written before they are read. */
+export function createSelectScratch(capacity: number, reuse = false): SelectScratch {
   const s = Math.min(capacity, WINDOW_SAMPLE);
+  if (reuse) {
+    return {
+      keys: scratchFloat64('select.keys', capacity), weights: scratchFloat64('select.weights', capacity), ids: scratchInt32('select.ids', capacity),
+      sampleKeys: scratchFloat64('select.sampleKeys', s), sampleWeights: scratchFloat64('select.sampleWeights', s), sampleIds: scratchInt32('select.sampleIds', s),
+    };
+  }
   return {
     keys: new Float64Array(capacity), weights: new Float64Array(capacity), ids: new Int32Array(capacity),
     sampleKeys: new Float64Array(s), sampleWeights: new Float64Array(s), sampleIds: new Int32Array(s),
