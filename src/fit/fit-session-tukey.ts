@@ -19,6 +19,7 @@
 import { defineCachedField } from './cached-field.ts';
 import { mEstimateCovariance } from './m-covariance.ts';
 import { residualsOf } from './problem.ts';
+import { smallCopy } from './small-array.ts';
 import type { RhoFunction } from './rho-function.ts';
 import type { FitResult, LinearProblem } from './types.ts';
 
@@ -405,7 +406,7 @@ export function refitTukeyKept(problem: LinearProblem, kept: TukeyKept, s: numbe
   const { n, p, X } = problem;
   const { c, base, s0, margin } = kept;
   if (rho.tuning !== c || n < kept.rows || n - kept.baseRows > TUKEY_KEPT_MAX_ADDED) return null;
-  const moments = Float64Array.from(kept.moments);
+  const moments = smallCopy(kept.moments, kept.moments.length);
   const colAbsMax = Float64Array.from(kept.colAbsMax);
   let sqrtWMax = kept.sqrtWMax;
   const listed = new Int32Array(kept.listed.length + n - kept.rows);

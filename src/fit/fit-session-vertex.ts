@@ -7,6 +7,7 @@ import { residualsOf } from './problem.ts';
 import { madScaleOfResiduals } from './simplex-residual-scale.ts';
 import type { VertexSides } from './least-absolute-vertex-sides.ts';
 import type { FitResult, LinearProblem } from './types.ts';
+import { smallFloat64 } from './small-array.ts';
 
 /**
  * The L1 vertex test's state (least-absolute-certificate.ts): with aᵢ = √wᵢxᵢ, sᵢ = sign(rᵢ) and
@@ -86,7 +87,7 @@ function addSideSegment(v: L1Vertex, problem: LinearProblem, from: number, to: n
 export function vertexState(problem: LinearProblem, coefficients: Float64Array, basis: Int32Array, sides: VertexSides | null = null): L1Vertex | undefined {
   const { p, X, weights } = problem;
   if (basis.length !== p) return undefined;
-  const AB = new Float64Array(p * p);
+  const AB = smallFloat64(p * p);
   for (let k = 0; k < p; k++) {
     const i = basis[k];
     const sw = weights ? Math.sqrt(weights[i]) : 1;

@@ -21,6 +21,7 @@
 import { factorLu, matrixNorm1, inverseFromLu, solveLuTransposed } from './linear-solve.ts';
 import { nonFiniteRow } from './simplex-frame.ts';
 import type { LinearProblem } from './types.ts';
+import { smallFloat64 } from './small-array.ts';
 
 export const SUM_BLOCK = 1024;
 /** The certificate is accepted when the relative optimality gap bound is at most this (a tenth of the 1e-9 the estimator promises). */
@@ -188,7 +189,7 @@ export function certify(
     }
   };
   settleZeros();
-  const AB = new Float64Array(p * p);
+  const AB = smallFloat64(p * p);
   for (let r = 0; r < p; r++) {
     const i = basis[r];
     const s = weights ? Math.sqrt(weights[i]) : 1;

@@ -38,6 +38,7 @@
 import { factorLu, orthonormalComplement, solveLu, solveLuTransposed, type LuFactors } from './linear-solve.ts';
 import { createSelectScratch, selectBreakpoint, selectCumulative, type SelectScratch } from './least-absolute-line-search.ts';
 import { scratchFloat64, scratchInt32, scratchInt8, scratchUint8 } from './scratch.ts';
+import { smallFloat64 } from './small-array.ts';
 
 export interface CompactLeastAbsolute {
   readonly m: number;
@@ -110,7 +111,7 @@ export function descendLeastAbsolute(cp: CompactLeastAbsolute, start: DescentSta
   // ---- First vertex: the given basis when its rows are independent.
   let k0 = 0;
   if (start.basis && start.basis.length === p) {
-    const AB = new Float64Array(p * p);
+    const AB = smallFloat64(p * p);
     for (let r = 0; r < p; r++) for (let j = 0; j < p; j++) AB[r * p + j] = A[start.basis[r] * p + j];
     const f = factorLu(AB, p);
     if (wellConditioned(f, p)) {
@@ -270,7 +271,7 @@ function createState(cp: CompactLeastAbsolute, start: DescentStart): State {
     scratch: createSelectScratch(m, reuse),
     g: new Float64Array(p), d: new Float64Array(p), dPrev: new Float64Array(p),
     gamma: start.gamma ? Float64Array.from(start.gamma) : new Float64Array(p),
-    inBasis: reuse ? scratchUint8('descent.inBasis', m).fill(0) : new Uint8Array(m), basis: new Int32Array(p), AB: new Float64Array(p * p), bB: new Float64Array(p),
+    inBasis: reuse ? scratchUint8('descent.inBasis', m).fill(0) : new Uint8Array(m), basis: new Int32Array(p), AB: smallFloat64(p * p), bB: new Float64Array(p),
     sums: new Float64Array(2),
   };
 }

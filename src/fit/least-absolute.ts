@@ -39,6 +39,7 @@ import { madScaleInPlace, madScaleOfResiduals } from './simplex-residual-scale.t
 import { defineCachedField } from './cached-field.ts';
 import { residualsOf } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
+import { smallFloat64 } from './small-array.ts';
 
 /** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
 export const DIRECT_MAX_ROWS = 4096;
@@ -226,7 +227,7 @@ function warmSeed(problem: LinearProblem, frame: ColumnFrame, sub: CompactLeastA
 export function refineVertex(problem: LinearProblem, frame: ColumnFrame, beta: Float64Array, basis: Int32Array): Float64Array {
   const { p, X, y, weights } = problem;
   const { L } = frame;
-  const AB = new Float64Array(p * p);
+  const AB = smallFloat64(p * p);
   const r = new Float64Array(p);
   for (let k = 0; k < p; k++) {
     const i = basis[k];

@@ -10,6 +10,8 @@
 // re-orthogonalisation pass — "twice is enough", Giraud et al. 2005) for the null-space
 // directions of the least-absolute-deviations start.
 
+import { smallCopy, smallFloat64 } from './small-array.ts';
+
 export interface LuFactors {
   readonly n: number;
   /** L (unit lower, below the diagonal) and U (on and above), row-major n×n. */
@@ -22,7 +24,7 @@ export interface LuFactors {
 
 /** Factors the row-major n×n matrix `a` (not modified). */
 export function factorLu(a: Float64Array, n: number): LuFactors {
-  const lu = Float64Array.from(a.subarray(0, n * n));
+  const lu = smallCopy(a, n * n);
   const piv = new Int32Array(n);
   for (let i = 0; i < n; i++) piv[i] = i;
   let singular = false;
@@ -112,7 +114,7 @@ export function matrixNorm1(m: Float64Array, p: number): number {
 /** A⁻¹, row-major, from the factors. */
 export function inverseFromLu(f: LuFactors): Float64Array {
   const { n } = f;
-  const inv = new Float64Array(n * n);
+  const inv = smallFloat64(n * n);
   const e = new Float64Array(n);
   const col = new Float64Array(n);
   for (let j = 0; j < n; j++) {

@@ -12,6 +12,7 @@
 // differs. The final residuals and certificates are always recomputed on the raw rows.
 import { InputError } from '../errors.ts';
 import type { LinearProblem } from './types.ts';
+import { smallFloat64 } from './small-array.ts';
 
 /**
  * A non-intercept column whose sample spread is below this fraction of its magnitude varies only
@@ -44,7 +45,7 @@ export function buildFrame(problem: LinearProblem, rows: Int32Array, count: numb
     for (let r = 1; r < count && constant; r++) constant = X[rows[r] * p + j] === v;
     if (constant) intercept = j;
   }
-  const L = new Float64Array(p * p);
+  const L = smallFloat64(p * p);
   for (let j = 0; j < p; j++) {
     if (j === intercept) continue;
     // Shifted by the first row's value, so a column constant on the sample centres to exact zeros.
