@@ -8,7 +8,7 @@
 // solved exactly from the sub-subsample's vertex. A pinned row on the wrong side only makes the
 // estimate slightly worse (the top level's band and certificate absorb it); an unbounded small
 // problem falls back to the direct descent on the whole subsample.
-import { bandFromSubsample, widen, type Band } from './least-absolute-band.ts';
+import { bandFromSubsample, widen } from './least-absolute-band.ts';
 import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult } from './least-absolute-descent.ts';
 import { screenCompact } from './least-absolute-screen.ts';
 import { factorLu, solveLu } from './linear-solve.ts';
@@ -134,42 +134,4 @@ export function binarySearch(a: Int32Array, count: number, v: number): number {
     else return mid;
   }
   return -1;
-}
-
-/** The inner band of `innerVertex`: this share of the outer band's half-width. */
-export const INNER_BAND_SHARE = 0.35;
-/** Kept sets from this many rows get an inner start (below it one descent is as cheap). */
-export const INNER_MIN_ROWS = 8192;
-
-/**
- * A start vertex for the exact descent on a large kept set (positions in cp), or null. The kept
- * rows were screened by a band around β (γ = 0 in cp's frame); most of the descent's pivots only
- * move the fit by a fraction of that band, and each pivot scans every kept row. So the kept set
- * is screened once more with a band INNER_BAND_SHARE as wide (the same leverage shape,
- * Portnoy & Koenker 1997 §4 inside the kept set), the inner rows are solved from the given basis
- * with the others pinned into the linear term, and the caller's exact descent on all of cp starts
- * from that vertex: its answer and proof are cp's own, so a wrong inner pin only costs pivots.
- */
-export function innerVertex(
-  cp: CompactLeastAbsolute, band: Band, basis: Int32Array | undefined, cap: (m: number, p: number) => number,
-): { basis: Int32Array; iterations: number } | null {
-  const { m, p, A, b } = cp;
-  if (m < INNER_MIN_ROWS) return null;
-  let inner: Band = { ...band, scale: band.scale * INNER_BAND_SHARE * INNER_BAND_SHARE };
-  let iterations = 0;
-  // Too narrow a band can pin the inner problem unbounded: then once more at twice the width.
-  for (let attempt = 0; attempt < 2; attempt++) {
-    const screen = screenCompact(A, b, m, p, new Float64Array(p), inner);
-    if (screen.keptCount < 4 * p || screen.keptCount > 0.75 * m) return null;
-    const c = new Float64Array(p);
-    for (let j = 0; j < p; j++) c[j] = cp.c[j] - screen.pinnedSum[j];
-    const kept = gatherCompact(cp, screen.kept, screen.keptCount, c);
-    const start = basis ? positionsIn(basis, screen.kept, screen.keptCount) : null;
-    const res = descendLeastAbsolute(kept, start ? { gamma: new Float64Array(p), basis: start } : { gamma: new Float64Array(p) }, cap(kept.m, p));
-    iterations += res.iterations;
-    if (res.status === 'optimal') return { basis: res.basis.map((k) => screen.kept[k]), iterations };
-    if (res.status !== 'unbounded') return null;
-    inner = widen(inner);
-  }
-  return null;
 }

@@ -30,7 +30,7 @@ import { descendLeastAbsolute, type CompactLeastAbsolute, type DescentResult, ty
 import { proveByBand, type BandProof } from './least-absolute-proof.ts';
 import { vertexSides, type VertexSides } from './least-absolute-vertex-sides.ts';
 import { screenRows, type FullScreen } from './least-absolute-screen.ts';
-import { fitSubsample, innerVertex, leastSquaresStart, positionsIn, binarySearch, type SubsampleOptions } from './least-absolute-subsample.ts';
+import { fitSubsample, leastSquaresStart, positionsIn, binarySearch, type SubsampleOptions } from './least-absolute-subsample.ts';
 import { buildFrame, frameCoefficients, frameVector, gatherFrameRows, rawCoefficients, type ColumnFrame } from './simplex-frame.ts';
 import { assertProblemShape, systematicSample, unsolved, vetWarmStart } from './simplex-problem.ts';
 import { designRank } from './simplex-rank.ts';
@@ -159,12 +159,6 @@ function solveIn(ctx: Context, options: FitOptions): FitResult {
     const start: DescentStart = { gamma: new Float64Array(p) };
     const startBasis = basis ? positionsIn(basis, screen.kept, screen.keptCount) : null;
     if (startBasis) start.basis = startBasis;
-    // A caller's iteration cap counts one descent: no inner start then.
-    const inner = ctx.cap === undefined ? innerVertex(cp, band, start.basis, descentCap) : null;
-    if (inner) {
-      start.basis = inner.basis;
-      ctx.iterations += inner.iterations;
-    }
     const res = descendLeastAbsolute(cp, start, ctx.cap ?? descentCap(cp.m, p));
     ctx.iterations += res.iterations;
     if (res.status === 'degenerate-direction') return rankOrDirect(ctx, frame, sample, 'the kept rows span fewer than p directions');

@@ -5,7 +5,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { fitLeastAbsolute } from '../../src/fit/least-absolute.ts';
-import { INNER_MIN_ROWS } from '../../src/fit/least-absolute-subsample.ts';
 import type { LinearProblem } from '../../src/fit/types.ts';
 import { within } from '../helpers/within.ts';
 import { bruteForceL1, degreeRows, kktDual, objectiveTolerance } from './least-absolute-reference.ts';
@@ -127,21 +126,4 @@ describe('fitLeastAbsolute warm start (iterations counted, never timed)', () => 
     within(warm.objective, cold.objective, objectiveTolerance(pr, cold.objective), 'm', 'objective', { source: 'the cold fit' });
     expect(warm.reason).toMatch(/warm basis ignored/);
   });
-});
-
-describe('fitLeastAbsolute: the inner start on a large kept set', () => {
-  for (const p of [2, 3] as const) {
-    it(`n = 150 000, p = ${p}: optimal by the independent dual check, same objective as the route without the inner start`, () => {
-      const pr = degreeRows(150_000, p, 7100 + p);
-      const fit = fitLeastAbsolute(pr);
-      expect(fit.converged).toBe(true);
-      // The kept set is large enough for the inner start (least-absolute-subsample.ts).
-      const kept = Number(/kept (\d+) rows/.exec(fit.reason)?.[1]);
-      expect(kept).toBeGreaterThanOrEqual(INNER_MIN_ROWS);
-      expect(kktDual(pr, fit.coefficients, fit.basis ?? [])).toBeLessThanOrEqual(1 + 1e-9);
-      // A caller's iteration cap turns the inner start off: the plain descent on the same kept set.
-      const plain = fitLeastAbsolute(pr, { maxIterations: 10_000 });
-      within(fit.objective, plain.objective, objectiveTolerance(pr, plain.objective), 'm', 'objective with and without the inner start', { source: 'the descent on the whole kept set' });
-    });
-  }
 });
