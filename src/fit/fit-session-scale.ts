@@ -6,8 +6,8 @@
 // reading needs s on all n rows; selecting two medians costs a few passes over the data
 // (robust-scale.ts), more than the rest of a warm Huber refit. The session keeps a reference: the
 // residuals of the first m rows at some β_ref, sorted, with each one's row. At the fit's β every
-// old residual moved by at most `reach` (≥ √wᵢ|xᵢᵀ(β − β_ref)|, from the columns' ranges; 0 while
-// the vertex holds), so every order statistic of the old rows moved by at most reach, and the
+// old residual moved by at most `reach` (≥ √wᵢ|xᵢᵀ(β − β_ref)|, from the reference's whitening frame
+// or the columns' ranges, fit-session-bounds.ts; 0 while the vertex holds), so every order statistic of the old rows moved by at most reach, and the
 // a = n − m rows added since shift ranks by at most a. The wanted order statistic k lies in the
 // window [old(k − a) − reach, old(k) + reach]; old rows sorted more than reach outside it are
 // below or above it for certain (counted by binary search), the few near its edges and the added

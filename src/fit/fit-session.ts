@@ -357,8 +357,8 @@ function withReference(kept: Kept, prev: Kept | undefined): Kept {
 /**
  * The L1 fit's MAD scale over all rows, from the sorted reference the session keeps
  * (fit-session-scale.ts): residuals of its rows at β_ref, each having moved by at most
- * √w_max·Σⱼ max|xⱼ|·|βⱼ − β_refⱼ| since (0 while the vertex holds), plus rounding
- * (fit-session-bounds.ts). Without a usable reference a new one is sorted (O(n log n), not above
+ * the reach of β − β_ref since (0 while the vertex holds: the smaller of the box of its rows in
+ * the reference's whitening frame and √w_max·Σⱼ max|xⱼ|·|βⱼ − β_refⱼ|), plus rounding (fit-session-bounds.ts). Without a usable reference a new one is sorted (O(n log n), not above
  * SCALE_REFERENCE_MAX_ROWS); beyond that the L1 result's own scale, a selection.
  */
 function sessionScale(problem: LinearProblem, l1: Kept, l1Prev: Kept | undefined, bounds: RowBounds): { scale: number; how: string } {
