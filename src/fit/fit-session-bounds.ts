@@ -10,6 +10,7 @@
 //   has large entries that cancel in every row, so the raw bound is 10–50× the true move; in
 //   the frame the coordinates are uncorrelated and the box bound is within a small factor of it.
 // The smaller one is used; each is a bound on its own.
+import { choleskyUpper } from './linear-solve.ts';
 import type { LinearProblem } from './types.ts';
 
 /** Over every row ever appended (a superset after a rollback, still a bound): max |xᵢⱼ| per column, max √wᵢ, max |yᵢ|. */
@@ -70,20 +71,8 @@ export function buildReachFrame(problem: LinearProblem, rows: number): ReachFram
       for (let k = j; k < p; k++) G[j * p + k] += sw2 * xj * X[i * p + k];
     }
   }
-  // Cholesky, R row by row (Golub & Van Loan, "Matrix Computations", 4th ed., §4.2).
   const R = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    let d = G[j * p + j];
-    for (let k = 0; k < j; k++) d -= R[k * p + j] * R[k * p + j];
-    if (!(d > FRAME_PIVOT_FLOOR * G[j * p + j])) return null;
-    const rjj = Math.sqrt(d);
-    R[j * p + j] = rjj;
-    for (let l = j + 1; l < p; l++) {
-      let s = G[j * p + l];
-      for (let k = 0; k < j; k++) s -= R[k * p + j] * R[k * p + l];
-      R[j * p + l] = s / rjj;
-    }
-  }
+  if (!choleskyUpper(G, p, R, FRAME_PIVOT_FLOOR)) return null;
   const zLo = new Float64Array(p).fill(Infinity);
   const zHi = new Float64Array(p).fill(-Infinity);
   const zAbs = new Float64Array(p);

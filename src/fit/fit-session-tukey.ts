@@ -17,6 +17,7 @@
 // minimum), and it is the one next to the previous answer, which is what the plain warm refit
 // (irls.ts, Newton from the previous answer) also converges to. Any failure: the plain fitter.
 import { defineCachedField } from './cached-field.ts';
+import { choleskyUpper } from './linear-solve.ts';
 import { mEstimateCovariance } from './m-covariance.ts';
 import { residualsOf } from './problem.ts';
 import { smallCopy } from './small-array.ts';
@@ -235,7 +236,8 @@ interface EvalWork {
   sums: Float64Array;
   F: Float64Array;
   M: Float64Array;
-  L: Float64Array;
+  /** M's Cholesky factor R (M = RᵀR). */
+  R: Float64Array;
   step: Float64Array;
 }
 
@@ -247,7 +249,7 @@ function workOf(p: number): EvalWork {
     const { start, alphas } = programOf(p);
     w = {
       dp: new Float64Array(p * 7), da: new Float64Array(alphas.length / p), sums: new Float64Array(start.length - 1),
-      F: new Float64Array(p), M: new Float64Array(p * p), L: new Float64Array(p * p), step: new Float64Array(p),
+      F: new Float64Array(p), M: new Float64Array(p * p), R: new Float64Array(p * p), step: new Float64Array(p),
     };
     workCache.set(p, w);
   }
@@ -286,30 +288,22 @@ function evaluate(mom: Moments, p: number, delta: Float64Array, s: number, c: nu
 }
 
 /**
- * Solves M·x = F into `out` by Cholesky (Golub & Van Loan, "Matrix Computations", 4th ed., §4.2),
+ * Solves M·x = F into `out` by Cholesky (linear-solve.ts `choleskyUpper`),
  * false when M is not positive definite: the test that the limit is a local minimum of Σρ (whose
  * Hessian is M/s²) and the step's solve in one factorisation.
  */
-function solvePositiveDefinite(M: Float64Array, F: Float64Array, p: number, L: Float64Array, out: Float64Array): boolean {
-  for (let j = 0; j < p; j++) {
-    for (let k = 0; k <= j; k++) {
-      let v = M[j * p + k];
-      for (let t = 0; t < k; t++) v -= L[j * p + t] * L[k * p + t];
-      if (j === k) {
-        if (!(v > 0)) return false;
-        L[j * p + j] = Math.sqrt(v);
-      } else L[j * p + k] = v / L[k * p + k];
-    }
-  }
+function solvePositiveDefinite(M: Float64Array, F: Float64Array, p: number, R: Float64Array, out: Float64Array): boolean {
+  if (!choleskyUpper(M, p, R)) return false;
+  // Rᵀy = F, then R·x = y.
   for (let j = 0; j < p; j++) {
     let v = F[j];
-    for (let t = 0; t < j; t++) v -= L[j * p + t] * out[t];
-    out[j] = v / L[j * p + j];
+    for (let t = 0; t < j; t++) v -= R[t * p + j] * out[t];
+    out[j] = v / R[j * p + j];
   }
   for (let j = p - 1; j >= 0; j--) {
     let v = out[j];
-    for (let t = j + 1; t < p; t++) v -= L[t * p + j] * out[t];
-    out[j] = v / L[j * p + j];
+    for (let t = j + 1; t < p; t++) v -= R[j * p + t] * out[t];
+    out[j] = v / R[j * p + j];
   }
   return true;
 }
@@ -386,11 +380,11 @@ export function buildTukeyKept(problem: LinearProblem, beta: Float64Array, s0: n
 function newton(mom: Moments, p: number, start: Float64Array, base: Float64Array, s: number, c: number): { delta: Float64Array; steps: number; rho: number } | null {
   const delta = Float64Array.from(start);
   const work = workOf(p);
-  const { F, M, L, step } = work;
+  const { F, M, R, step } = work;
   for (let it = 1; it <= MAX_NEWTON; it++) {
     const rho = evaluate(mom, p, delta, s, c, work);
     // F(β) = Σ√wψx = 0; ∂F/∂β = −M/s, so the Newton step is δ += s·M⁻¹F.
-    if (!solvePositiveDefinite(M, F, p, L, step)) return null;
+    if (!solvePositiveDefinite(M, F, p, R, step)) return null;
     let change = 0;
     for (let j = 0; j < p; j++) {
       delta[j] += s * step[j];

@@ -182,3 +182,25 @@ export function orthonormalComplement(rows: Float64Array, k: number, p: number):
  * relative); 1e-8 ≈ √ε leaves a wide margin on both sides.
  */
 export const COMPLEMENT_KEEP = 1e-8;
+
+/**
+ * Cholesky G = RᵀR of a symmetric p×p matrix (its upper triangle is read) into the upper
+ * triangle of R (row-major; the rest is left as given), false when a pivot is not above
+ * relFloor × its diagonal entry: not positive definite (relFloor = 0) or too near it
+ * (Golub & Van Loan, "Matrix Computations", 4th ed., §4.2).
+ */
+export function choleskyUpper(G: Float64Array, p: number, R: Float64Array, relFloor = 0): boolean {
+  for (let j = 0; j < p; j++) {
+    let d = G[j * p + j];
+    for (let k = 0; k < j; k++) d -= R[k * p + j] * R[k * p + j];
+    if (!(d > relFloor * G[j * p + j])) return false;
+    const rjj = Math.sqrt(d);
+    R[j * p + j] = rjj;
+    for (let l = j + 1; l < p; l++) {
+      let v = G[j * p + l];
+      for (let k = 0; k < j; k++) v -= R[k * p + j] * R[k * p + l];
+      R[j * p + l] = v / rjj;
+    }
+  }
+  return true;
+}
