@@ -3,11 +3,14 @@
 //   1. one first call;
 //   2. if the first call took more than LONG_RUN_SECONDS, it is the only sample (re-running a
 //      40 s LP three times to get a median would triple the run for little information);
-//   3. otherwise warm-up calls until WARMUP_SECONDS have been spent (at least one after the
-//      first). Why a second of it: V8 tiers a function up over several calls, and a process's
+//   3. otherwise warm-up calls until WARMUP_SECONDS have been spent and MIN_WARMUP_CALLS made
+//      (the first included), or WARMUP_CAP_SECONDS spent, whichever comes first (at least one
+//      call after the first). Why: V8 tiers a function up over several calls, and a process's
 //      first large buffers are faulted in from the kernel until freed ones are recycled; on the
-//      bench machine a 10⁶-row fit took 2–5× its steady time for its first ~10 calls (a second
-//      at most). R and Python run the same warm-up, so each side is timed in its steady state;
+//      bench machine a 10⁶-row fit took 2–5× its steady time for its first 10–15 calls. A second
+//      alone gave the Huber fit at 10⁶ (~0.3 s for its first calls) only 4 warm-up calls, and
+//      its nine samples were still falling (127 → 71 ms; the steady time is 62–65 ms). R and
+//      Python run the same warm-up, so each side is timed in its steady state;
 //   4. k calls per sample, k = ⌈minSample/c⌉ with c the fastest warm-up call, so a sample is long
 //      enough for the clock, and clamp(⌊budget/(c·k)⌋, MIN_REPEATS, maxRepeats) samples: a median
 //      of at least three warm samples even when the budget is short.
@@ -26,6 +29,10 @@ export const LONG_RUN_SECONDS = 10;
 export const MIN_REPEATS = 3;
 /** Warm-up time spent before sampling (keep equal to WARMUP_SECONDS in dataset.py / dataset.R). */
 export const WARMUP_SECONDS = 1;
+/** Fewest warm-up calls, the first included (keep equal in dataset.py / dataset.R). */
+export const MIN_WARMUP_CALLS = 20;
+/** Warm-up stops after this long even short of MIN_WARMUP_CALLS (a 0.5 s peer call: 12 calls). */
+export const WARMUP_CAP_SECONDS = 6;
 
 export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 2, maxRepeats: 9, minSampleSeconds: 0.02 };
 
@@ -72,7 +79,7 @@ export function timeCall<T>(call: () => T, options: TimingOptions = DEFAULT_TIMI
       spent += d;
       fastest = Math.min(fastest, d);
       warmupCalls++;
-    } while (spent < WARMUP_SECONDS);
+    } while ((spent < WARMUP_SECONDS || warmupCalls < MIN_WARMUP_CALLS) && spent < WARMUP_CAP_SECONDS);
     const calibration = Math.max(fastest, 1e-9);
     k = Math.max(1, Math.ceil(options.minSampleSeconds / calibration));
     const repeats = Math.max(Math.min(MIN_REPEATS, options.maxRepeats), Math.min(options.maxRepeats, Math.floor(options.budgetSeconds / (calibration * k))));

@@ -7,13 +7,16 @@
 #
 # Timing protocol (identical in bench/harness/timing.ts and bench/peers/dataset.py): one first call;
 # if it took more than LONG_RUN_SECONDS it is the only sample; otherwise warm-up calls until
-# WARMUP_SECONDS have been spent (at least one after the first; the reason is in timing.ts),
+# WARMUP_SECONDS have been spent and MIN_WARMUP_CALLS made (the first included), or until
+# WARMUP_CAP_SECONDS, whichever comes first (at least one after the first; the reason is in timing.ts),
 # c = the fastest warm-up call, k = ceil(min_sample / c) calls per sample, and
 # clamp(floor(budget / (c * k)), MIN_REPEATS, max_repeats) samples.
 
 LONG_RUN_SECONDS <- 10  # keep equal to bench/harness/timing.ts
 MIN_REPEATS <- 3
 WARMUP_SECONDS <- 1  # keep equal to bench/harness/timing.ts
+MIN_WARMUP_CALLS <- 20  # keep equal to bench/harness/timing.ts
+WARMUP_CAP_SECONDS <- 6  # keep equal to bench/harness/timing.ts
 
 read_dataset <- function(path) {
   con <- file(path, "rb")
@@ -43,13 +46,15 @@ time_fit <- function(fit, budget, max_repeats, min_sample) {
   if (first > LONG_RUN_SECONDS) return(list(result = result, seconds = first, calls = 1))
   spent <- first
   fastest <- first
+  calls <- 1
   repeat {
     t0 <- now()
     result <- fit()
     d <- now() - t0
     spent <- spent + d
     fastest <- min(fastest, d)
-    if (spent >= WARMUP_SECONDS) break
+    calls <- calls + 1
+    if ((spent >= WARMUP_SECONDS && calls >= MIN_WARMUP_CALLS) || spent >= WARMUP_CAP_SECONDS) break
   }
   calibration <- max(fastest, 1e-9)
   k <- max(1, ceiling(min_sample / calibration))

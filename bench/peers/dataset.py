@@ -6,7 +6,8 @@ File layout (see bench/harness/dataset-file.ts): 8-byte magic "ARCBNCH1", uint32
 
 Timing protocol (identical in bench/harness/timing.ts and bench/peers/dataset.R): one first call;
 if it took more than LONG_RUN_SECONDS it is the only sample; otherwise warm-up calls until
-WARMUP_SECONDS have been spent (at least one after the first; the reason is in timing.ts),
+WARMUP_SECONDS have been spent and MIN_WARMUP_CALLS made (the first included), or until
+WARMUP_CAP_SECONDS, whichever comes first (at least one after the first; the reason is in timing.ts),
 c = the fastest warm-up call, k = ceil(min_sample / c) calls per sample so a sample is long
 enough for the clock, and clamp(floor(budget / (c * k)), MIN_REPEATS, max_repeats) samples; the
 median is reported.
@@ -24,6 +25,8 @@ MAGIC = b"ARCBNCH1"
 LONG_RUN_SECONDS = 10  # keep equal to bench/harness/timing.ts
 MIN_REPEATS = 3
 WARMUP_SECONDS = 1  # keep equal to bench/harness/timing.ts
+MIN_WARMUP_CALLS = 20  # keep equal to bench/harness/timing.ts
+WARMUP_CAP_SECONDS = 6  # keep equal to bench/harness/timing.ts
 
 
 def read_dataset(path):
@@ -56,13 +59,15 @@ def time_fit(fit, budget, max_repeats, min_sample):
         return result, [first], 1
     spent = first
     fastest = first
+    calls = 1
     while True:
         t0 = time.perf_counter()
         result = fit()
         d = time.perf_counter() - t0
         spent += d
         fastest = min(fastest, d)
-        if spent >= WARMUP_SECONDS:
+        calls += 1
+        if (spent >= WARMUP_SECONDS and calls >= MIN_WARMUP_CALLS) or spent >= WARMUP_CAP_SECONDS:
             break
     calibration = max(fastest, 1e-9)
     k = max(1, math.ceil(min_sample / calibration))

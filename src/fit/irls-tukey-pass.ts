@@ -38,7 +38,8 @@ export function tukeyPass2(problem: LinearProblem, c: number, beta: Float64Array
     }
     const u = r * inv;
     const q = u * u * invC2;
-    const t = Math.max(1 - q, 0);
+    const e = 1 - q;
+    const t = 0.5 * (e + Math.abs(e)); // max(e, 0) exactly, without Math.max's NaN/−0 branches (irls-huber-pass.ts)
     objective += cap * (1 - t * t * t);
     const v = t * t;
     const ps = u * v;
@@ -80,7 +81,8 @@ export function tukeyPass3(problem: LinearProblem, c: number, beta: Float64Array
     }
     const u = r * inv;
     const q = u * u * invC2;
-    const t = Math.max(1 - q, 0);
+    const e = 1 - q;
+    const t = 0.5 * (e + Math.abs(e)); // max(e, 0) exactly, without Math.max's NaN/−0 branches (irls-huber-pass.ts)
     objective += cap * (1 - t * t * t);
     const v = t * t;
     const ps = u * v;
