@@ -70,6 +70,15 @@ export function createHuberBand(problem: LinearProblem): HuberBand {
   return { margin, p, x: scratchFloat64('huber-band-x', capacity * p), r: scratchFloat64('huber-band-r', capacity), count: 0, overflowed: false, colMin, colMax };
 }
 
+/**
+ * The first constant column (min = max ≠ 0) from the band's ranges, or −1: interceptColumn's
+ * answer (problem.ts) on validated data, where no value is NaN.
+ */
+export function constantColumn(band: HuberBand): number {
+  for (let j = 0; j < band.p; j++) if (band.colMin[j] === band.colMax[j] && band.colMin[j] !== 0) return j;
+  return -1;
+}
+
 /** Each column's min and max into colMin/colMax (filled with ±∞): compares, not Math.min/max (V8's NaN/−0 handling). */
 function columnRanges(problem: LinearProblem, colMin: Float64Array, colMax: Float64Array): void {
   const { n, p, X } = problem;
