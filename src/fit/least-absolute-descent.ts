@@ -315,7 +315,19 @@ export const CHUNK = 2048;
 
 function computeResiduals(st: State): void {
   const { m, p, A, b, rho, gamma } = st;
-  for (let from = 0; from < m; from += CHUNK) residualsChunk(A, b, p, gamma, rho, from, Math.min(m, from + CHUNK));
+  // p = 3 and 2 with γ in locals, as the edge pass (same products, same order).
+  const chunk = p === 3 ? residualsChunk3 : p === 2 ? residualsChunk2 : residualsChunk;
+  for (let from = 0; from < m; from += CHUNK) chunk(A, b, p, gamma, rho, from, Math.min(m, from + CHUNK));
+}
+
+function residualsChunk2(A: Float64Array, b: Float64Array, _p: number, gamma: Float64Array, rho: Float64Array, from: number, to: number): void {
+  const c0 = gamma[0], c1 = gamma[1];
+  for (let i = from; i < to; i++) rho[i] = b[i] - (A[2 * i] * c0 + A[2 * i + 1] * c1);
+}
+
+function residualsChunk3(A: Float64Array, b: Float64Array, _p: number, gamma: Float64Array, rho: Float64Array, from: number, to: number): void {
+  const c0 = gamma[0], c1 = gamma[1], c2 = gamma[2];
+  for (let i = from; i < to; i++) rho[i] = b[i] - (A[3 * i] * c0 + A[3 * i + 1] * c1 + A[3 * i + 2] * c2);
 }
 
 function residualsChunk(A: Float64Array, b: Float64Array, p: number, gamma: Float64Array, rho: Float64Array, from: number, to: number): void {
@@ -384,9 +396,74 @@ function edgeCandidates(st: State, vTol: number, t0: number, hi: number): number
   sums[0] = 0;
   sums[1] = 0;
   let count = 0;
+  // One loop per p = 2, 3 with d and dPrev in locals (the generic j-loop reloads them for every
+  // row): the pass is most of a large fit's descent.
+  const edge = p === 3 ? edgeChunk3 : p === 2 ? edgeChunk2 : edgeChunk;
   for (let from = 0; from < m; from += CHUNK) {
-    count = edgeChunk(A, p, d, dPrev, rho, keys, weights, ids, sign, vTol, t0, hi, from, Math.min(m, from + CHUNK), count, sums);
+    count = edge(A, p, d, dPrev, rho, keys, weights, ids, sign, vTol, t0, hi, from, Math.min(m, from + CHUNK), count, sums);
   }
+  return count;
+}
+
+/** edgeChunk for p = 2. */
+function edgeChunk2(
+  A: Float64Array, _p: number, d: Float64Array, dPrev: Float64Array, rho: Float64Array, keys: Float64Array, weights: Float64Array,
+  ids: Int32Array, sign: Int8Array, vTol: number, t0: number, hi: number, from: number, to: number, count: number, sums: Float64Array,
+): number {
+  const d0 = d[0], d1 = d[1], e0 = dPrev[0], e1 = dPrev[1];
+  let W = 0;
+  let Wk = 0;
+  for (let i = from; i < to; i++) {
+    const a0 = A[2 * i], a1 = A[2 * i + 1];
+    const v = a0 * d0 + a1 * d1;
+    const vp = a0 * e0 + a1 * e1;
+    const r = rho[i] - t0 * vp;
+    rho[i] = r;
+    const take = +(sign[i] * v > vTol);
+    const q = r / v;
+    const key = 0.5 * (q + Math.abs(q));
+    const w = 2 * Math.abs(v);
+    const keep = take & +(key <= hi);
+    keys[count] = key;
+    weights[count] = w;
+    ids[count] = i;
+    W += take * w;
+    Wk += keep * w;
+    count += keep;
+  }
+  sums[0] += W;
+  sums[1] += Wk;
+  return count;
+}
+
+/** edgeChunk for p = 3. */
+function edgeChunk3(
+  A: Float64Array, _p: number, d: Float64Array, dPrev: Float64Array, rho: Float64Array, keys: Float64Array, weights: Float64Array,
+  ids: Int32Array, sign: Int8Array, vTol: number, t0: number, hi: number, from: number, to: number, count: number, sums: Float64Array,
+): number {
+  const d0 = d[0], d1 = d[1], d2 = d[2], e0 = dPrev[0], e1 = dPrev[1], e2 = dPrev[2];
+  let W = 0;
+  let Wk = 0;
+  for (let i = from; i < to; i++) {
+    const a0 = A[3 * i], a1 = A[3 * i + 1], a2 = A[3 * i + 2];
+    const v = a0 * d0 + a1 * d1 + a2 * d2;
+    const vp = a0 * e0 + a1 * e1 + a2 * e2;
+    const r = rho[i] - t0 * vp;
+    rho[i] = r;
+    const take = +(sign[i] * v > vTol);
+    const q = r / v;
+    const key = 0.5 * (q + Math.abs(q));
+    const w = 2 * Math.abs(v);
+    const keep = take & +(key <= hi);
+    keys[count] = key;
+    weights[count] = w;
+    ids[count] = i;
+    W += take * w;
+    Wk += keep * w;
+    count += keep;
+  }
+  sums[0] += W;
+  sums[1] += Wk;
   return count;
 }
 
@@ -471,7 +548,33 @@ function refresh(st: State, tol: number): void {
   computeResiduals(st);
   const { m, p, A, rho, sign, inBasis, g, c } = st;
   g.set(c);
-  for (let from = 0; from < m; from += CHUNK) refreshChunk(A, p, rho, sign, inBasis, g, tol, from, Math.min(m, from + CHUNK));
+  for (let from = 0; from < m; from += CHUNK) {
+    if (p === 3) refreshChunk3(A, rho, sign, inBasis, g, tol, from, Math.min(m, from + CHUNK));
+    else refreshChunk(A, p, rho, sign, inBasis, g, tol, from, Math.min(m, from + CHUNK));
+  }
+}
+
+/** refreshChunk for p = 3 with g in locals (the generic loop stores and reloads g[j] per row); same order of terms. */
+function refreshChunk3(A: Float64Array, rho: Float64Array, sign: Int8Array, inBasis: Uint8Array, g: Float64Array, tol: number, from: number, to: number): void {
+  let g0 = g[0], g1 = g[1], g2 = g[2];
+  for (let i = from; i < to; i++) {
+    if (inBasis[i]) {
+      sign[i] = 0;
+      rho[i] = 0;
+      continue;
+    }
+    const r = rho[i];
+    const decided = +(Math.abs(r) > tol);
+    const kept = sign[i] === 0 ? 1 : sign[i];
+    const s = decided * (1 - 2 * +(r < 0)) + (1 - decided) * kept;
+    sign[i] = s;
+    g0 -= s * A[3 * i];
+    g1 -= s * A[3 * i + 1];
+    g2 -= s * A[3 * i + 2];
+  }
+  g[0] = g0;
+  g[1] = g1;
+  g[2] = g2;
 }
 
 function refreshChunk(A: Float64Array, p: number, rho: Float64Array, sign: Int8Array, inBasis: Uint8Array, g: Float64Array, tol: number, from: number, to: number): void {
