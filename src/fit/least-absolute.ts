@@ -47,8 +47,8 @@ export const DIRECT_MAX_ROWS = 4096;
  * Band multiplier κ (least-absolute-band.ts): the side proof holds unless χ²_p of the subsample
  * error exceeds κ² (P ≈ 1 % at p = 2, 3 % at p = 3 for κ = 3; the band then doubles and the rows
  * are screened once more). 3 rather than 4 keeps a quarter fewer rows (n = 10⁶: ~33 k against
- * ~45 k); over six seeds at n = 10⁶ the fit moved 0.3–0.5 of the κ = 3 band, every one proved in
- * one round, and the fit took ~13 % less time (interleaved processes, geometric mean).
+ * ~45 k); over six seeds at n = 10⁶, p = 2 and 3, the fit moved 0.1–0.8 of the κ = 3 band and
+ * every one was proved in one round; the fit took ~13 % less time (interleaved, geometric mean).
  */
 export const BAND_KAPPA = 3;
 /** Floor of the subsample size, so that its quantiles and its fit mean something. */
