@@ -315,14 +315,9 @@ export const CHUNK = 2048;
 
 function computeResiduals(st: State): void {
   const { m, p, A, b, rho, gamma } = st;
-  // p = 3 and 2 with γ in locals, as the edge pass (same products, same order).
-  const chunk = p === 3 ? residualsChunk3 : p === 2 ? residualsChunk2 : residualsChunk;
+  // p = 3 with γ in locals, as the edge pass (same products, same order).
+  const chunk = p === 3 ? residualsChunk3 : residualsChunk;
   for (let from = 0; from < m; from += CHUNK) chunk(A, b, p, gamma, rho, from, Math.min(m, from + CHUNK));
-}
-
-function residualsChunk2(A: Float64Array, b: Float64Array, _p: number, gamma: Float64Array, rho: Float64Array, from: number, to: number): void {
-  const c0 = gamma[0], c1 = gamma[1];
-  for (let i = from; i < to; i++) rho[i] = b[i] - (A[2 * i] * c0 + A[2 * i + 1] * c1);
 }
 
 function residualsChunk3(A: Float64Array, b: Float64Array, _p: number, gamma: Float64Array, rho: Float64Array, from: number, to: number): void {
@@ -396,43 +391,12 @@ function edgeCandidates(st: State, vTol: number, t0: number, hi: number): number
   sums[0] = 0;
   sums[1] = 0;
   let count = 0;
-  // One loop per p = 2, 3 with d and dPrev in locals (the generic j-loop reloads them for every
-  // row): the pass is most of a large fit's descent.
-  const edge = p === 3 ? edgeChunk3 : p === 2 ? edgeChunk2 : edgeChunk;
+  // p = 3 has its own loop with d and dPrev in locals (the generic j-loop reloads them for every
+  // row): the pass is most of a large fit's descent. At p = 2 the gain was within the noise.
+  const edge = p === 3 ? edgeChunk3 : edgeChunk;
   for (let from = 0; from < m; from += CHUNK) {
     count = edge(A, p, d, dPrev, rho, keys, weights, ids, sign, vTol, t0, hi, from, Math.min(m, from + CHUNK), count, sums);
   }
-  return count;
-}
-
-/** edgeChunk for p = 2. */
-function edgeChunk2(
-  A: Float64Array, _p: number, d: Float64Array, dPrev: Float64Array, rho: Float64Array, keys: Float64Array, weights: Float64Array,
-  ids: Int32Array, sign: Int8Array, vTol: number, t0: number, hi: number, from: number, to: number, count: number, sums: Float64Array,
-): number {
-  const d0 = d[0], d1 = d[1], e0 = dPrev[0], e1 = dPrev[1];
-  let W = 0;
-  let Wk = 0;
-  for (let i = from; i < to; i++) {
-    const a0 = A[2 * i], a1 = A[2 * i + 1];
-    const v = a0 * d0 + a1 * d1;
-    const vp = a0 * e0 + a1 * e1;
-    const r = rho[i] - t0 * vp;
-    rho[i] = r;
-    const take = +(sign[i] * v > vTol);
-    const q = r / v;
-    const key = 0.5 * (q + Math.abs(q));
-    const w = 2 * Math.abs(v);
-    const keep = take & +(key <= hi);
-    keys[count] = key;
-    weights[count] = w;
-    ids[count] = i;
-    W += take * w;
-    Wk += keep * w;
-    count += keep;
-  }
-  sums[0] += W;
-  sums[1] += Wk;
   return count;
 }
 

@@ -414,8 +414,7 @@ function keptCompact(frame: ColumnFrame, screen: FullScreen): CompactLeastAbsolu
   const { keptX, keptY, keptS } = screen;
   const A = new Float64Array(m * p);
   const b = new Float64Array(m);
-  if (p === 2) compactRows2(keptX, keptY, keptS, m, L, betaRef, A, b);
-  else if (p === 3) compactRows3(keptX, keptY, keptS, m, L, betaRef, A, b);
+  if (p === 3) compactRows3(keptX, keptY, keptS, m, L, betaRef, A, b);
   else for (let r = 0; r < m; r++) {
     const s = keptS[r];
     let f = 0;
@@ -432,23 +431,10 @@ function keptCompact(frame: ColumnFrame, screen: FullScreen): CompactLeastAbsolu
 }
 
 /**
- * keptCompact's rows for p = 2 with L and β_ref in locals (the generic loops reload them for every
- * row); the same products in the same order. Measured at n = 10⁶: ~1 ms off the p = 3 fit, within
- * the noise at p = 2.
+ * keptCompact's rows for p = 3 with L and β_ref in locals (the generic loops reload them for every
+ * row); the same products in the same order. Measured at n = 10⁶: ~1 ms off the fit (at p = 2 the
+ * same change was within the noise, so p = 2 keeps the generic loop).
  */
-function compactRows2(X: Float64Array, y: Float64Array, S: Float64Array, m: number, L: Float64Array, beta: Float64Array, A: Float64Array, b: Float64Array): void {
-  const c0 = beta[0], c1 = beta[1];
-  const l00 = L[0], l01 = L[1], l10 = L[2], l11 = L[3];
-  for (let r = 0; r < m; r++) {
-    const s = S[r];
-    const x0 = X[2 * r], x1 = X[2 * r + 1];
-    b[r] = s * (y[r] - (x0 * c0 + x1 * c1));
-    A[2 * r] = s * (x0 * l00 + x1 * l10);
-    A[2 * r + 1] = s * (x0 * l01 + x1 * l11);
-  }
-}
-
-/** compactRows2 for p = 3. */
 function compactRows3(X: Float64Array, y: Float64Array, S: Float64Array, m: number, L: Float64Array, beta: Float64Array, A: Float64Array, b: Float64Array): void {
   const c0 = beta[0], c1 = beta[1], c2 = beta[2];
   const l00 = L[0], l01 = L[1], l02 = L[2], l10 = L[3], l11 = L[4], l12 = L[5], l20 = L[6], l21 = L[7], l22 = L[8];
