@@ -14,6 +14,7 @@
 // The weights cancel in raw units: ρᵢ = √wᵢ·rᵢ and ãᵢ = √wᵢ·x̃ᵢ, so the test is
 // rᵢ² < δ₀²/p · xᵢ Q xᵢᵀ with Q = L G⁻¹ Lᵀ (L the frame map), one quadratic form per row.
 import { factorLu, inverseFromLu } from './linear-solve.ts';
+import { quadRow } from './row-forms.ts';
 import { selectInPlace } from './simplex-residual-scale.ts';
 import type { ColumnFrame } from './simplex-frame.ts';
 
@@ -70,14 +71,7 @@ function gram3(A: Float64Array, m: number): Float64Array {
 
 /** ã G⁻¹ ãᵀ for compact row i. */
 export function leverage(A: Float64Array, i: number, p: number, Q: Float64Array): number {
-  let s = 0;
-  for (let j = 0; j < p; j++) {
-    const a = A[i * p + j];
-    let t = 0;
-    for (let k = 0; k < p; k++) t += Q[j * p + k] * A[i * p + k];
-    s += a * t;
-  }
-  return s;
+  return quadRow(A, i * p, Q, p);
 }
 
 /**

@@ -49,22 +49,24 @@ export function proveByBand(problem: LinearProblem, frame: ColumnFrame, band: Ba
   // A relative 1e-9 below the limit covers the rounding of D itself.
   const sidesProved = move < limit * (1 - 1e-9);
 
-  // g = c − Σ_{kept ∉ B} sᵢãᵢ, compensated (Sum2), and z = Ã_B⁻ᵀ g.
+  // g = c − Σ_{kept ∉ B} sᵢãᵢ, compensated (Sum2), and z = Ã_B⁻ᵀ g. A column at a time, its sum
+  // and compensation in locals (row by row they lived in memory: ~2 stores and reloads per term).
   const g = Float64Array.from(c);
-  const comp = new Float64Array(p);
   const sign = res.sign;
-  for (let i = 0; i < m; i++) {
-    const s = sign[i];
-    if (s === 0) continue;
-    for (let j = 0; j < p; j++) {
+  for (let j = 0; j < p; j++) {
+    let gj = g[j];
+    let comp = 0;
+    for (let i = 0; i < m; i++) {
+      const s = sign[i];
+      if (s === 0) continue;
       const v = -s * A[i * p + j];
-      const t = g[j] + v;
-      const w = t - g[j];
-      comp[j] += g[j] - (t - w) + (v - w);
-      g[j] = t;
+      const t = gj + v;
+      const w = t - gj;
+      comp += gj - (t - w) + (v - w);
+      gj = t;
     }
+    g[j] = gj + comp;
   }
-  for (let j = 0; j < p; j++) g[j] += comp[j];
   const AB = new Float64Array(p * p);
   for (let r = 0; r < p; r++) for (let j = 0; j < p; j++) AB[r * p + j] = A[res.basis[r] * p + j];
   const lu = factorLu(AB, p);

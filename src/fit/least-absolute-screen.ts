@@ -11,6 +11,7 @@
 // the band and repeats. One pass, O(n·p), no per-row allocation: indices go to a growable
 // Int32Array, the sums to p accumulators.
 import type { Band } from './least-absolute-band.ts';
+import { dotRow, quadRow } from './row-forms.ts';
 import { nonFiniteRow } from './simplex-frame.ts';
 import type { LinearProblem } from './types.ts';
 
@@ -256,34 +257,36 @@ function nonFiniteIn(problem: LinearProblem, beta: Float64Array, from: number, t
 /** Rows per block of the pinned sums (error ≤ γ_SCREEN_BLOCK·Σ|aᵢⱼ| + 2ε|S_j|). */
 export const SCREEN_BLOCK = 1024;
 
-/** The compact-row version (inner screening levels): frame rows A, b at γ, band in the frame. */
+/**
+ * The compact-row version (inner screening levels): frame rows A, b at γ, band in the frame.
+ * The pinned sums are formed afterwards, a column at a time in a local (the same terms in the
+ * same order as adding each pinned row into the p sums, which kept them in memory: a store and
+ * reload per term).
+ */
 export function screenCompact(A: Float64Array, b: Float64Array, m: number, p: number, gamma: Float64Array, band: Band): ScreenResult {
   let kept: Int32Array = new Int32Array(Math.max(16, Math.min(m, 64)));
   let count = 0;
-  const pinned = new Float64Array(p);
+  const side = new Float64Array(m);
   let sideSum = 0;
   const Q = band.frameQ;
   const scale = band.scale;
   for (let i = 0; i < m; i++) {
     const o = i * p;
-    let f = 0;
-    let lev = 0;
-    for (let j = 0; j < p; j++) {
-      const aj = A[o + j];
-      f += aj * gamma[j];
-      let t = 0;
-      for (let k = 0; k < p; k++) t += Q[j * p + k] * A[o + k];
-      lev += aj * t;
-    }
-    const r = b[i] - f;
-    if (r * r >= scale * lev) {
+    const r = b[i] - dotRow(A, o, gamma, p);
+    if (r * r >= scale * quadRow(A, o, Q, p)) {
       const sg = 1 - 2 * +(r < 0);
-      for (let j = 0; j < p; j++) pinned[j] += sg * A[o + j];
+      side[i] = sg;
       sideSum += sg;
     } else {
       if (count === kept.length) kept = grow(kept, m);
       kept[count++] = i;
     }
+  }
+  const pinned = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    let sum = 0;
+    for (let i = 0; i < m; i++) sum += side[i] * A[i * p + j]; // kept rows add 0
+    pinned[j] = sum;
   }
   const pinnedCount = m - count;
   return { kept, keptCount: count, pinnedSum: pinned, above: (pinnedCount + sideSum) / 2, below: (pinnedCount - sideSum) / 2 };

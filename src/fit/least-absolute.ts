@@ -40,6 +40,7 @@ import { defineCachedField } from './cached-field.ts';
 import { residualsOf } from './problem.ts';
 import type { FitOptions, FitResult, LinearProblem } from './types.ts';
 import { smallFloat64 } from './small-array.ts';
+import { dotRow } from './row-forms.ts';
 
 /** Up to this many rows the whole problem goes to the descent directly (screening costs more). */
 export const DIRECT_MAX_ROWS = 4096;
@@ -266,11 +267,18 @@ function rowMagnitude(problem: LinearProblem, rows: Int32Array, beta: Float64Arr
   let magnitude = 0;
   for (let k = 0; k < rows.length; k++) {
     const i = rows[k];
-    let m = Math.abs(y[i]);
-    for (let j = 0; j < p; j++) m += Math.abs(X[i * p + j] * beta[j]);
+    const m = absTerms(Math.abs(y[i]), X, i * p, beta, p);
     magnitude = Math.max(magnitude, m * (weights ? Math.sqrt(weights[i]) : 1));
   }
   return magnitude;
+}
+
+/** start + Σⱼ |xⱼβⱼ| of one row, left to right (p = 3 written out, as in row-forms.ts). */
+function absTerms(start: number, X: Float64Array, o: number, beta: Float64Array, p: number): number {
+  if (p === 3) return start + Math.abs(X[o] * beta[0]) + Math.abs(X[o + 1] * beta[1]) + Math.abs(X[o + 2] * beta[2]);
+  let m = start;
+  for (let j = 0; j < p; j++) m += Math.abs(X[o + j] * beta[j]);
+  return m;
 }
 
 /** The result once the band proof (or the iteration cap) ended the screened solve. */
@@ -464,22 +472,14 @@ function subsampleOptions(ctx: Context): SubsampleOptions {
 function residualsAt(cp: CompactLeastAbsolute, gamma: Float64Array): Float64Array {
   const { m, p, A, b } = cp;
   const out = new Float64Array(m);
-  for (let i = 0; i < m; i++) {
-    let f = 0;
-    for (let j = 0; j < p; j++) f += A[i * p + j] * gamma[j];
-    out[i] = b[i] - f;
-  }
+  for (let i = 0; i < m; i++) out[i] = b[i] - dotRow(A, i * p, gamma, p);
   return out;
 }
 
 /** b̃ ← b̃ − Ãγ: the compact rows re-referenced to β_ref + Lγ. */
 function shiftReference(cp: CompactLeastAbsolute, gamma: Float64Array): void {
   const { m, p, A, b } = cp;
-  for (let i = 0; i < m; i++) {
-    let f = 0;
-    for (let j = 0; j < p; j++) f += A[i * p + j] * gamma[j];
-    b[i] -= f;
-  }
+  for (let i = 0; i < m; i++) b[i] -= dotRow(A, i * p, gamma, p);
 }
 
 function withReference(frame: ColumnFrame, beta: Float64Array): ColumnFrame {

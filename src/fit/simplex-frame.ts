@@ -10,6 +10,7 @@
 // reference fit, y − x·β_ref, which is small. Both maps are exact reparameterisations (x·β =
 // x·β_ref + x̃·γ), so optimal bases and objectives are the same in either frame; only rounding
 // differs. The final residuals and certificates are always recomputed on the raw rows.
+import { dotRow } from './row-forms.ts';
 import { InputError } from '../errors.ts';
 import type { LinearProblem } from './types.ts';
 import { smallFloat64 } from './small-array.ts';
@@ -118,6 +119,13 @@ export function gatherFrameRows(
 ): void {
   const { p, X, y, weights } = problem;
   const { L, betaRef } = frame;
+  // L's columns as vectors, so each entry of xᵢL is one written-out dot product (row-forms.ts).
+  const columns: Float64Array[] = [];
+  for (let k = 0; k < p; k++) {
+    const c = new Float64Array(p);
+    for (let j = 0; j < p; j++) c[j] = L[j * p + k];
+    columns.push(c);
+  }
   for (let r = 0; r < count; r++) {
     const i = rows[r];
     const o = i * p;
@@ -127,16 +135,10 @@ export function gatherFrameRows(
       if (!(w > 0 && w < Infinity)) throw new InputError(`weights[${i}]`, w, 'weights are 1/σ² and must be finite and > 0');
       s = Math.sqrt(w);
     }
-    let f = 0;
-    for (let j = 0; j < p; j++) f += X[o + j] * betaRef[j];
-    const bi = s * (y[i] - f);
+    const bi = s * (y[i] - dotRow(X, o, betaRef, p));
     if (!Number.isFinite(bi)) throw nonFiniteRow(problem, i);
     b[r] = bi;
-    for (let k = 0; k < p; k++) {
-      let t = 0;
-      for (let j = 0; j < p; j++) t += X[o + j] * L[j * p + k];
-      A[r * p + k] = s * t;
-    }
+    for (let k = 0; k < p; k++) A[r * p + k] = s * dotRow(X, o, columns[k], p);
   }
 }
 
