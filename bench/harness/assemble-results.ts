@@ -30,6 +30,8 @@ export function oursRecord(run: OursRun, data: RoundData): OursRecord {
     note: run.error ?? (r ? `${r.status}; ${r.reason}` : 'no result'),
     timing: run.timing ?? null,
     floor: run.floor ?? null,
+    timingRuns: run.timing ? [run.timing] : [],
+    floorRuns: run.floor ? [run.floor] : [],
     coefficients: r?.coefficients ?? [],
     objective: usable && kind ? scoreObjective(kind, data.X, data.y, data.p, r.coefficients) : r?.objective ?? null,
     reportedObjective: r?.objective ?? null,

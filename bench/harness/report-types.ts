@@ -38,8 +38,13 @@ export interface OursRecord {
   p: number;
   available: boolean;
   note: string;
+  /** Pooled over `timingRuns` (see bench/harness/bracket.ts). */
   timing: TimingSummary | null;
+  /** Pooled over `floorRuns`. */
   floor: TimingSummary | null;
+  /** Our timing before the round's peers and, when it ran, after them. */
+  timingRuns: TimingSummary[];
+  floorRuns: TimingSummary[];
   coefficients: number[];
   /** Recomputed from the coefficients for L1/L∞; as reported for the others. */
   objective: number | null;
