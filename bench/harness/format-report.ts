@@ -80,7 +80,7 @@ export function memoryTable(report: Pick<BenchReport, 'memory'>): Table {
 
 export function warmTable(report: Pick<BenchReport, 'warmRefit'>): Table {
   return {
-    headers: ['estimator', 'p', 'n', 'cold', 'warm (median)', 'warm max', 'warm/cold', 'same answer', 'iterations warm/cold', 'fast path', 'rollback'],
+    headers: ['estimator', 'p', 'n', 'cold', 'warm (median)', 'warm max', 'warm/cold', 'same answer', 'iterations warm/cold', 'refits with no iteration', 'rollback'],
     align: ['l', 'r', 'r', 'r', 'r', 'r', 'r', 'l', 'r', 'r', 'r'],
     rows: report.warmRefit.map((w) => [w.estimator, String(w.p), formatSize(w.n), formatSeconds(w.coldSeconds), formatSeconds(w.warmSeconds),
       w.warmSecondsMax === undefined ? '–' : formatSeconds(w.warmSecondsMax),

@@ -117,7 +117,7 @@ export interface WarmRefitRow {
   coldIterations: number;
   /** Session cases measured (bench/run-ours.ts item 6); warmSeconds is their median. */
   cases?: number;
-  /** Cases answered without an iteration (the session's kept vertex, level or sums). */
+  /** Cases answered without an iteration (the session's kept vertex, level or sums; a Tukey refit always takes at least one IRLS step, so it reads 0 here even when its refit is fast). */
   fastPathCases?: number;
   warmSecondsMax?: number;
   /** One rollback() alone. */
